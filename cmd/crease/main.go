@@ -1,0 +1,152 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"os/signal"
+	"sort"
+	"strings"
+)
+
+// command is one subcommand of crease. Each subcommand lives in its own
+// file and registers itself from an init function.
+type command struct {
+	name    string
+	summary string
+	// run executes the subcommand with the arguments after its name.
+	// It returns an error wrapped by usageError or checkFailed to pick
+	// the exit status; any other error exits with status 2.
+	run func(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer) error
+}
+
+var commands = map[string]*command{}
+
+func register(c *command) {
+	if _, dup := commands[c.name]; dup {
+		panic("crease: duplicate command " + c.name)
+	}
+	commands[c.name] = c
+}
+
+// errCheckFailed marks a check requested by the user that failed: exit 1.
+var errCheckFailed = errors.New("check failed")
+
+// checkFailed returns an error that makes crease exit with status 1.
+func checkFailed(format string, args ...any) error {
+	return fmt.Errorf("%w: %s", errCheckFailed, fmt.Sprintf(format, args...))
+}
+
+func main() {
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
+	code := creaseMain(ctx, os.Args[1:], os.Stdin, os.Stdout, os.Stderr)
+	stop()
+	os.Exit(code)
+}
+
+// creaseMain runs crease with args and returns the exit status:
+// 0 on success, 1 when a requested check fails, 2 on bad input or usage.
+func creaseMain(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	if len(args) == 0 || args[0] == "-h" || args[0] == "--help" || args[0] == "help" {
+		usage(stderr)
+		if len(args) == 0 {
+			return 2
+		}
+		return 0
+	}
+	if args[0] == "version" || args[0] == "--version" {
+		fmt.Fprintln(stdout, "crease", Version)
+		return 0
+	}
+	c, ok := commands[args[0]]
+	if !ok {
+		fmt.Fprintf(stderr, "crease: unknown command %q\n", args[0])
+		usage(stderr)
+		return 2
+	}
+	err := c.run(ctx, args[1:], stdin, stdout, stderr)
+	switch {
+	case err == nil:
+		return 0
+	case errors.Is(err, errHelp):
+		return 0
+	case errors.Is(err, errCheckFailed):
+		fmt.Fprintf(stderr, "crease %s: %v\n", c.name, err)
+		return 1
+	default:
+		fmt.Fprintf(stderr, "crease %s: %v\n", c.name, err)
+		return 2
+	}
+}
+
+// Version is the tool version recorded in traces.
+const Version = "0.1.0"
+
+func usage(w io.Writer) {
+	fmt.Fprintln(w, "usage: crease <command> [arguments]")
+	fmt.Fprintln(w)
+	fmt.Fprintln(w, "commands:")
+	names := make([]string, 0, len(commands))
+	for n := range commands {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	for _, n := range names {
+		fmt.Fprintf(w, "  %-9s %s\n", n, commands[n].summary)
+	}
+	fmt.Fprintln(w)
+	fmt.Fprintln(w, "Run 'crease <command> -h' for a command's flags.")
+}
+
+// errHelp is returned by a command whose flags asked for help.
+var errHelp = errors.New("help requested")
+
+// openInput opens name for reading; "-" means stdin. The returned
+// closer is never nil.
+func openInput(name string, stdin io.Reader) (io.Reader, func() error, string, error) {
+	if name == "-" {
+		return stdin, func() error { return nil }, "<stdin>", nil
+	}
+	f, err := os.Open(name)
+	if err != nil {
+		return nil, nil, name, err
+	}
+	return f, f.Close, name, nil
+}
+
+// writeFileAtomic writes data to path through a temporary file in the
+// same directory and renames it into place, so a reader never sees a
+// partial file.
+func writeFileAtomic(path string, write func(io.Writer) error) (err error) {
+	dir := "."
+	if i := strings.LastIndexByte(path, '/'); i >= 0 {
+		dir = path[:i+1]
+	}
+	f, err := os.CreateTemp(dir, ".crease-*.tmp")
+	if err != nil {
+		return err
+	}
+	tmp := f.Name()
+	defer func() {
+		if err != nil {
+			f.Close()
+			os.Remove(tmp)
+		}
+	}()
+	if err = write(f); err != nil {
+		return err
+	}
+	if err = f.Sync(); err != nil {
+		return err
+	}
+	if err = f.Close(); err != nil {
+		return err
+	}
+	return os.Rename(tmp, path)
+}
