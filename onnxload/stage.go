@@ -1,0 +1,157 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package onnxload
+
+import (
+	"math"
+
+	"gonum.org/v1/gonum/mat"
+)
+
+// Kind is the kind of a stage.
+type Kind int
+
+// Stage kinds.
+const (
+	Affine     Kind = iota + 1 // y = W·x + B
+	ReLU                       // max(x, 0)
+	LeakyReLU                  // x if x ≥ 0, else Alpha·x
+	ELU                        // x if x > 0, else Alpha·(eˣ − 1)
+	Softplus                   // log(1 + eˣ)
+	Sigmoid                    // 1 / (1 + e⁻ˣ)
+	Tanh                       // tanh x
+	Softmax                    // eˣⁱ / Σⱼ eˣʲ over each row
+	LogSoftmax                 // xᵢ − log Σⱼ eˣʲ over each row
+	Reshape                    // rows unchanged (Flatten, Reshape to (N, −1))
+)
+
+var kindNames = [...]string{"", "affine", "relu", "leaky-relu", "elu", "softplus", "sigmoid", "tanh", "softmax", "log-softmax", "reshape"}
+
+// String returns the kind's name, such as "leaky-relu".
+func (k Kind) String() string {
+	if k > 0 && int(k) < len(kindNames) {
+		return kindNames[k]
+	}
+	return "kind(" + itoa(int64(k)) + ")"
+}
+
+// Stage is one step of a model's forward pass: an affine map or a
+// row-wise nonlinearity. A Stage is not changed by Apply and is safe for
+// concurrent use.
+type Stage struct {
+	Kind Kind
+	// In and Out are the input and output widths.
+	In, Out int
+	// Name is the module name derived from the origin node names (for
+	// "/fc1/Gemm" it is "fc1"); fused stages join names with "+".
+	Name string
+	// Nodes are the names of the ONNX nodes the stage came from, in graph
+	// order. Identity and Dropout nodes are listed with the stage that
+	// produced their input.
+	Nodes []string
+	// W is the Out×In weight matrix of an affine stage; nil otherwise.
+	W *mat.Dense
+	// B is the bias of an affine stage, of length Out; nil otherwise.
+	B []float64
+	// Alpha is the slope of leaky-relu or the scale of elu.
+	Alpha float64
+}
+
+// Apply writes the stage applied to each row of x into dst. x must be
+// n×s.In; dst must be empty (it is then allocated) or n×s.Out, and must
+// not overlap x. Apply panics if the sizes do not match.
+func (s *Stage) Apply(dst *mat.Dense, x mat.Matrix) {
+	n, c := x.Dims()
+	if c != s.In {
+		panic("onnxload: stage input width mismatch")
+	}
+	if dst.IsEmpty() {
+		dst.ReuseAs(n, s.Out)
+	} else if r, cc := dst.Dims(); r != n || cc != s.Out {
+		panic(mat.ErrShape)
+	}
+	if s.Kind == Affine {
+		dst.Mul(x, s.W.T())
+		for i := 0; i < n; i++ {
+			row := dst.RawRowView(i)
+			for j, b := range s.B {
+				row[j] += b
+			}
+		}
+		return
+	}
+	if s.In != s.Out {
+		panic("onnxload: bad stage widths")
+	}
+	if dst != x {
+		dst.Copy(x)
+	}
+	for i := 0; i < n; i++ {
+		applyRow(s.Kind, s.Alpha, dst.RawRowView(i))
+	}
+}
+
+// applyRow applies an activation in place to one row.
+func applyRow(k Kind, alpha float64, row []float64) {
+	switch k {
+	case ReLU:
+		for j, v := range row {
+			if v < 0 {
+				row[j] = 0
+			}
+		}
+	case LeakyReLU:
+		for j, v := range row {
+			if v < 0 {
+				row[j] = alpha * v
+			}
+		}
+	case ELU:
+		for j, v := range row {
+			if v <= 0 {
+				row[j] = alpha * math.Expm1(v)
+			}
+		}
+	case Softplus:
+		for j, v := range row {
+			row[j] = math.Max(v, 0) + math.Log1p(math.Exp(-math.Abs(v)))
+		}
+	case Sigmoid:
+		for j, v := range row {
+			if v >= 0 {
+				row[j] = 1 / (1 + math.Exp(-v))
+			} else {
+				e := math.Exp(v)
+				row[j] = e / (1 + e)
+			}
+		}
+	case Tanh:
+		for j, v := range row {
+			row[j] = math.Tanh(v)
+		}
+	case Softmax, LogSoftmax:
+		m := math.Inf(-1)
+		for _, v := range row {
+			m = math.Max(m, v)
+		}
+		var sum float64
+		for _, v := range row {
+			sum += math.Exp(v - m)
+		}
+		if k == Softmax {
+			for j, v := range row {
+				row[j] = math.Exp(v-m) / sum
+			}
+		} else {
+			ls := math.Log(sum)
+			for j, v := range row {
+				row[j] = v - m - ls
+			}
+		}
+	case Reshape:
+	default:
+		panic("onnxload: unknown stage kind")
+	}
+}
