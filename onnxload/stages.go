@@ -124,9 +124,6 @@ func (m *Model) Stages(set *StageSettings) ([]Stage, error) {
 	if set.FuseAffine {
 		stages = fuse(stages)
 	}
-	for i := range stages {
-		stages[i].Name = stageName(stages[i].Nodes)
-	}
 	return stages, nil
 }
 
@@ -138,6 +135,17 @@ func dimString(d Dim) string {
 		return "unknown"
 	}
 	return itoa(d.Value)
+}
+
+// joinNames joins stage names with "+", dropping repeats.
+func joinNames(names []string) string {
+	var out []string
+	for _, n := range names {
+		if len(out) == 0 || out[len(out)-1] != n {
+			out = append(out, n)
+		}
+	}
+	return strings.Join(out, "+")
 }
 
 // stageName derives a module name from node names such as
@@ -191,6 +199,7 @@ func (b *builder) setOutput(n *Node, v *value) {
 // push appends a stage fed by the current data value.
 func (b *builder) push(n *Node, i int, s Stage, shape []int64) {
 	s.Nodes = append(b.pending, nodeLabel(n, i))
+	s.Name = stageName([]string{nodeLabel(n, i)})
 	b.pending = nil
 	b.stages = append(b.stages, s)
 	b.cur = &value{shape: shape, stage: len(b.stages) - 1}
@@ -671,9 +680,10 @@ func fuse(in []Stage) []Stage {
 		}
 		var W *mat.Dense
 		var B []float64
-		var nodes []string
+		var nodes, names []string
 		for _, s := range in[k:e] {
 			nodes = append(nodes, s.Nodes...)
+			names = append(names, s.Name)
 			if s.Kind != Affine {
 				continue
 			}
@@ -693,7 +703,7 @@ func fuse(in []Stage) []Stage {
 			W, B = &nw, nb
 		}
 		r, c := W.Dims()
-		out = append(out, Stage{Kind: Affine, In: c, Out: r, W: W, B: B, Nodes: nodes})
+		out = append(out, Stage{Kind: Affine, In: c, Out: r, W: W, B: B, Nodes: nodes, Name: joinNames(names)})
 		k = e
 	}
 	return out
