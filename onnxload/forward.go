@@ -33,13 +33,14 @@ const forwardBlock = 64
 // of stages[i]; x itself is not included. Rows are processed in blocks
 // on all workers. Forward returns an error if the widths of x and the
 // stages do not chain, or ctx.Err() if ctx is cancelled (with the
-// outputs of the stages finished so far). A nil set means defaults.
+// outputs of the stages finished so far). With no stages, Forward
+// returns an empty list. A nil set means defaults.
 func Forward(ctx context.Context, stages []Stage, x mat.Matrix, set *ForwardSettings) ([]*mat.Dense, error) {
 	if set == nil {
 		set = &ForwardSettings{}
 	}
 	if len(stages) == 0 {
-		return nil, fmt.Errorf("onnxload: no stages")
+		return []*mat.Dense{}, nil
 	}
 	n, d := x.Dims()
 	if n == 0 || d == 0 {

@@ -65,6 +65,9 @@ type builder struct {
 // width is their product) and the graph must be a chain from that input
 // to the first output. A nil set means the zero StageSettings.
 //
+// A graph whose output is its input (or only Identity and Dropout of
+// it) has no stages: Stages returns an empty list and no error.
+//
 // An operator outside [SupportedOps], or a supported one used in a way
 // that is not a row-wise map (softmax over the batch, a per-row bias,
 // branching), gives an *UnsupportedError naming the node.
@@ -116,9 +119,6 @@ func (m *Model) Stages(set *StageSettings) ([]Stage, error) {
 	out := m.Outputs[0]
 	if v := b.vals[out.Name]; v != b.cur {
 		return nil, &UnsupportedError{Where: fmt.Sprintf("output %q", out.Name), Reason: "the first graph output is not the end of the chain of stages"}
-	}
-	if len(b.stages) == 0 {
-		return nil, &UnsupportedError{Where: "graph", Reason: "the graph has no stages"}
 	}
 	stages := b.stages
 	if set.FuseAffine {
@@ -385,10 +385,7 @@ func (b *builder) node(n *Node, i int) error {
 		} else {
 			c = b.input(n, 1).konst
 		}
-		if len(data.shape) != 1 {
-			return b.unsupported(n, i, "add on data of rank %d; only 2-D data is supported", len(data.shape)+1)
-		}
-		bias, err := rowBias(c, w, 1)
+		bias, err := rowBias(c, data.shape, 1)
 		if err != nil {
 			return b.unsupported(n, i, "%v", err)
 		}
@@ -422,26 +419,55 @@ func (b *builder) node(n *Node, i int) error {
 	return b.unsupported(n, i, "operator %s is not supported on the data", n.OpType)
 }
 
-// rowBias returns scale·c broadcast to a row of width w: c must be a
-// scalar, or of shape (w), (1, w), (1) or (1, 1).
-func rowBias(c *Tensor, w int, scale float64) ([]float64, error) {
+// rowBias returns scale·c broadcast (NumPy rules, aligned on the right)
+// to one sample of trailing shape shape, flattened row-major. A
+// dimension of c aligned with the batch must be 1.
+func rowBias(c *Tensor, shape []int64, scale float64) ([]float64, error) {
 	if !c.DataType.isFloat() {
-		return nil, fmt.Errorf("bias %q has element type %v, want float", c.Name, c.DataType)
+		return nil, fmt.Errorf("addend %q has element type %v, want float", c.Name, c.DataType)
 	}
-	n := c.Len()
-	lead := int64(1)
-	for _, d := range c.Dims[:max(len(c.Dims)-1, 0)] {
-		lead *= d
+	r := len(shape)
+	bad := func() error {
+		return fmt.Errorf("addend %q has dims %v, which do not broadcast to one sample of shape %v (a per-sample addend is not a map of each row)", c.Name, c.Dims, shape)
 	}
-	if len(c.Dims) > 2 || lead != 1 || (n != 1 && n != w) {
-		return nil, fmt.Errorf("bias %q has dims %v, which do not broadcast to one row of width %d (a per-sample bias is not a map of each row)", c.Name, c.Dims, w)
+	if len(c.Dims) > r+1 {
+		return nil, bad()
+	}
+	// cd is c's shape padded on the left to rank r+1.
+	cd := make([]int64, r+1)
+	for k := range cd {
+		cd[k] = 1
+	}
+	copy(cd[r+1-len(c.Dims):], c.Dims)
+	if cd[0] != 1 {
+		return nil, bad()
+	}
+	cd = cd[1:]
+	w := 1
+	for k, d := range shape {
+		if cd[k] != 1 && cd[k] != d {
+			return nil, bad()
+		}
+		w *= int(d)
 	}
 	out := make([]float64, w)
+	idx := make([]int64, r)
 	for j := range out {
-		if n == 1 {
-			out[j] = scale * c.Float64[0]
-		} else {
-			out[j] = scale * c.Float64[j]
+		// Offset of idx in c, with broadcast dimensions fixed at 0.
+		off, stride := int64(0), int64(1)
+		for k := r - 1; k >= 0; k-- {
+			if cd[k] != 1 {
+				off += idx[k] * stride
+			}
+			stride *= cd[k]
+		}
+		out[j] = scale * c.Float64[off]
+		for k := r - 1; k >= 0; k-- {
+			idx[k]++
+			if idx[k] < shape[k] {
+				break
+			}
+			idx[k] = 0
 		}
 	}
 	return out, nil
@@ -487,7 +513,7 @@ func (b *builder) gemm(n *Node, i int, data *value) error {
 	bias := make([]float64, out)
 	if cv := b.input(n, 2); cv != nil {
 		var err error
-		if bias, err = rowBias(cv.konst, out, beta); err != nil {
+		if bias, err = rowBias(cv.konst, []int64{int64(out)}, beta); err != nil {
 			return b.unsupported(n, i, "%v", err)
 		}
 	}
