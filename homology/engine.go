@@ -1,0 +1,520 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package homology
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"time"
+)
+
+// maxVerts is the largest number of vertices of a simplex the engine
+// handles: a 4-simplex, the cofaces of the 3-simplices of H3.
+const maxVerts = 5
+
+// simplex is a simplex of the filtration: its diameter and its index in
+// the combinatorial number system, {v_k > … > v_0} ↦ Σ C(v_i, i+1).
+type simplex struct {
+	d float64
+	i int64
+}
+
+// entry is a simplex with a coefficient in Z/p.
+type entry struct {
+	d float64
+	i int64
+	c int64
+}
+
+// engine holds the 1-skeleton of the Rips complex within the threshold
+// as neighbour lists, and the tables needed to enumerate cofaces.
+type engine struct {
+	ctx    context.Context
+	n      int
+	maxDim int
+	p      int64
+	inv    []int64 // inv[c] = c⁻¹ mod p
+	thr    float64
+
+	// binom[t][v] = C(v, t) for t = 0..maxDim+2, v = 0..n.
+	binom [maxVerts + 1][]int64
+
+	// Neighbour lists: the neighbours of v are nbIdx[nbStart[v]:nbStart[v+1]]
+	// in decreasing order, with their distances in nbDist.
+	nbStart []int
+	nbIdx   []int32
+	nbDist  []float64
+
+	edges []simplex // all edges within the threshold
+
+	budget   int64
+	progress func(Progress)
+	work     int64 // cofaces enumerated so far
+	nextTick int64
+	lastProg time.Time
+	phase    Progress
+	stats    Stats
+}
+
+// tickEvery is the number of enumerated cofaces between checks of the
+// context: a few milliseconds of work.
+const tickEvery = 1 << 17
+
+// tick checks for cancellation and reports progress.
+func (e *engine) tick() error {
+	e.nextTick = e.work + tickEvery
+	if err := e.ctx.Err(); err != nil {
+		return err
+	}
+	if e.progress != nil {
+		if now := time.Now(); now.Sub(e.lastProg) >= 100*time.Millisecond {
+			e.lastProg = now
+			e.progress(e.phase)
+		}
+	}
+	return nil
+}
+
+func (e *engine) startPhase(name string, dim int, total int64) {
+	e.phase = Progress{Phase: name, Dim: dim, Total: total}
+	if e.progress != nil {
+		e.lastProg = time.Now()
+		e.progress(e.phase)
+	}
+}
+
+// makeBinomials fills e.binom, refusing with ErrOverflow when the indices
+// of (maxDim+1)-simplices on n vertices would not fit in 62 bits.
+func (e *engine) makeBinomials() error {
+	const limit = int64(1) << 62
+	top := e.maxDim + 2
+	for t := 0; t <= maxVerts; t++ {
+		e.binom[t] = make([]int64, e.n+1)
+	}
+	for v := 0; v <= e.n; v++ {
+		e.binom[0][v] = 1
+		for t := 1; t <= maxVerts; t++ {
+			if v == 0 {
+				continue
+			}
+			s := e.binom[t-1][v-1] + e.binom[t][v-1]
+			if s >= limit || s < 0 {
+				if t <= top {
+					return fmt.Errorf("%w: C(%d,%d) exceeds 2⁶²; %d points are too many for dimension %d (use Landmarks)", ErrOverflow, v, t, e.n, e.maxDim)
+				}
+				s = limit // unused entries; keep them saturated
+			}
+			e.binom[t][v] = s
+		}
+	}
+	return nil
+}
+
+func (e *engine) makeInverses() {
+	p := e.p
+	e.inv = make([]int64, p)
+	if p == 2 {
+		e.inv[1] = 1
+		return
+	}
+	for c := int64(1); c < p; c++ {
+		// Fermat: c^(p−2).
+		r, b, x := int64(1), c, p-2
+		for x > 0 {
+			if x&1 == 1 {
+				r = r * b % p
+			}
+			b = b * b % p
+			x >>= 1
+		}
+		e.inv[c] = r
+	}
+}
+
+// buildFromTriangle makes the neighbour lists and edge list from dense
+// distances, keeping edges of finite length ≤ thr.
+func (e *engine) buildFromTriangle(t *LowerTriangular) error {
+	n := e.n
+	deg := make([]int, n+1)
+	var m int64
+	for i := 1; i < n; i++ {
+		row := t.Data[i*(i-1)/2 : i*(i-1)/2+i]
+		for j, d := range row {
+			if d <= e.thr && !isInf(d) {
+				deg[i]++
+				deg[j]++
+				m++
+			}
+		}
+	}
+	if err := e.checkEdgeBudget(m, int64(len(t.Data))*8); err != nil {
+		return err
+	}
+	e.allocLists(deg, m)
+	fill := make([]int, n)
+	copy(fill, e.nbStart[:n])
+	e.edges = make([]simplex, 0, m)
+	// Walk i downwards so that every list is filled in decreasing order.
+	for i := n - 1; i >= 1; i-- {
+		base := i * (i - 1) / 2
+		row := t.Data[base : base+i]
+		for j := i - 1; j >= 0; j-- {
+			d := row[j]
+			if d <= e.thr && !isInf(d) {
+				e.nbIdx[fill[i]], e.nbDist[fill[i]] = int32(j), d
+				fill[i]++
+				e.nbIdx[fill[j]], e.nbDist[fill[j]] = int32(i), d
+				fill[j]++
+				e.edges = append(e.edges, simplex{d, int64(base + j)})
+			}
+		}
+	}
+	return nil
+}
+
+// buildFromSparse makes the neighbour lists from an edge list.
+func (e *engine) buildFromSparse(s *Sparse) error {
+	n := e.n
+	deg := make([]int, n+1)
+	var m int64
+	for _, ed := range s.Edges {
+		if ed.D <= e.thr && !isInf(ed.D) {
+			deg[ed.I]++
+			deg[ed.J]++
+			m++
+		}
+	}
+	if err := e.checkEdgeBudget(m, 0); err != nil {
+		return err
+	}
+	e.allocLists(deg, m)
+	fill := make([]int, n)
+	copy(fill, e.nbStart[:n])
+	e.edges = make([]simplex, 0, m)
+	for _, ed := range s.Edges {
+		if ed.D <= e.thr && !isInf(ed.D) {
+			i, j := max(ed.I, ed.J), min(ed.I, ed.J)
+			e.nbIdx[fill[i]], e.nbDist[fill[i]] = int32(j), ed.D
+			fill[i]++
+			e.nbIdx[fill[j]], e.nbDist[fill[j]] = int32(i), ed.D
+			fill[j]++
+			e.edges = append(e.edges, simplex{ed.D, int64(i*(i-1)/2 + j)})
+		}
+	}
+	// Sort each list decreasingly by neighbour index.
+	for v := 0; v < n; v++ {
+		lo, hi := e.nbStart[v], e.nbStart[v+1]
+		sortNeighbours(e.nbIdx[lo:hi], e.nbDist[lo:hi])
+	}
+	return nil
+}
+
+func sortNeighbours(idx []int32, dist []float64) {
+	// Insertion sort for short lists, else a paired heap sort.
+	if len(idx) < 32 {
+		for a := 1; a < len(idx); a++ {
+			for b := a; b > 0 && idx[b] > idx[b-1]; b-- {
+				idx[b], idx[b-1] = idx[b-1], idx[b]
+				dist[b], dist[b-1] = dist[b-1], dist[b]
+			}
+		}
+		return
+	}
+	n := len(idx)
+	down := func(r, end int) {
+		for {
+			c := 2*r + 1
+			if c >= end {
+				return
+			}
+			if c+1 < end && idx[c+1] < idx[c] {
+				c++
+			}
+			if idx[r] <= idx[c] {
+				return
+			}
+			idx[r], idx[c] = idx[c], idx[r]
+			dist[r], dist[c] = dist[c], dist[r]
+			r = c
+		}
+	}
+	// Min-heap, then repeatedly move the minimum to the end: decreasing order.
+	for r := n/2 - 1; r >= 0; r-- {
+		down(r, n)
+	}
+	for end := n - 1; end > 0; end-- {
+		idx[0], idx[end] = idx[end], idx[0]
+		dist[0], dist[end] = dist[end], dist[0]
+		down(0, end)
+	}
+}
+
+func (e *engine) allocLists(deg []int, m int64) {
+	n := e.n
+	e.nbStart = make([]int, n+1)
+	for v := 0; v < n; v++ {
+		e.nbStart[v+1] = e.nbStart[v] + deg[v]
+	}
+	e.nbIdx = make([]int32, 2*m)
+	e.nbDist = make([]float64, 2*m)
+}
+
+// edgeBytes is the estimated memory per edge within the threshold:
+// neighbour lists (2×12), the edge list (16), a column (16) and pivot
+// map slots (32).
+const edgeBytes = 24 + 16 + 16 + 32
+
+func (e *engine) checkEdgeBudget(m int64, already int64) error {
+	est := already + m*edgeBytes + int64(e.n)*64
+	if est > e.budget {
+		return &MemoryError{Estimate: est, Budget: e.budget, Points: e.n,
+			What: fmt.Sprintf("the Rips complex with %d edges", m)}
+	}
+	return nil
+}
+
+// dist returns the length of edge {a,b} within the threshold, or +Inf.
+func (e *engine) dist(a, b int32) float64 {
+	lo, hi := e.nbStart[a], e.nbStart[a+1]
+	idx := e.nbIdx[lo:hi]
+	// idx is decreasing.
+	l, h := 0, len(idx)
+	for l < h {
+		m := int(uint(l+h) >> 1)
+		if idx[m] > b {
+			l = m + 1
+		} else {
+			h = m
+		}
+	}
+	if l < len(idx) && idx[l] == b {
+		return e.nbDist[lo+l]
+	}
+	return math.Inf(1)
+}
+
+// vertices decodes the k vertices of simplex idx into w, decreasing.
+func (e *engine) vertices(idx int64, k int, w []int32) {
+	v := e.n - 1
+	for t := k; t >= 1; t-- {
+		b := e.binom[t]
+		// Largest u ≤ v with C(u,t) ≤ idx; C(t−1,t) = 0.
+		lo, hi := t-1, v
+		for lo < hi {
+			m := int(uint(lo+hi+1) >> 1)
+			if b[m] <= idx {
+				lo = m
+			} else {
+				hi = m - 1
+			}
+		}
+		w[k-t] = int32(lo)
+		idx -= b[lo]
+		v = lo - 1
+	}
+}
+
+// index returns the index of the simplex with decreasing vertices w.
+func (e *engine) index(w []int32) int64 {
+	k := len(w)
+	var s int64
+	for p, v := range w {
+		s += e.binom[k-p][v]
+	}
+	return s
+}
+
+// cofaces enumerates the cofaces of a simplex in decreasing index order,
+// by intersecting the neighbour lists of its vertices.
+type cofaces struct {
+	e     *engine
+	w     [maxVerts]int32
+	cur   [maxVerts]int
+	end   [maxVerts]int
+	k     int
+	lead  int
+	sd    float64
+	p     int
+	above int64
+	below int64
+	jmin  int32
+}
+
+// set starts the enumeration of the cofaces of s (k vertices). With
+// topOnly, only cofaces whose new vertex exceeds all vertices of s are
+// produced, so each simplex is produced once from one facet.
+func (it *cofaces) set(s simplex, k int, topOnly bool) {
+	e := it.e
+	it.k = k
+	it.sd = s.d
+	e.vertices(s.i, k, it.w[:k])
+	it.p = 0
+	it.above = 0
+	it.below = s.i
+	it.jmin = -1
+	if topOnly {
+		it.jmin = it.w[0]
+	}
+	best := -1
+	for q := 0; q < k; q++ {
+		v := it.w[q]
+		it.cur[q], it.end[q] = e.nbStart[v], e.nbStart[v+1]
+		if l := it.end[q] - it.cur[q]; best < 0 || l < best {
+			best, it.lead = l, q
+		}
+	}
+}
+
+// next returns the next coface, its diameter and whether its coefficient
+// in the coboundary is −1.
+func (it *cofaces) next() (simplex, bool, bool) {
+	e := it.e
+	l := it.lead
+	for it.cur[l] < it.end[l] {
+		c := it.cur[l]
+		j := e.nbIdx[c]
+		if j <= it.jmin {
+			it.cur[l] = it.end[l]
+			break
+		}
+		diam := max(it.sd, e.nbDist[c])
+		it.cur[l] = c + 1
+		ok := true
+		for q := 0; q < it.k; q++ {
+			if q == l {
+				continue
+			}
+			cq, eq := it.cur[q], it.end[q]
+			for cq < eq && e.nbIdx[cq] > j {
+				cq++
+			}
+			it.cur[q] = cq
+			if cq == eq {
+				it.cur[l] = it.end[l]
+				return simplex{}, false, false
+			}
+			if e.nbIdx[cq] != j {
+				ok = false
+				break
+			}
+			if d := e.nbDist[cq]; d > diam {
+				diam = d
+			}
+		}
+		if !ok {
+			continue
+		}
+		for it.p < it.k && it.w[it.p] > j {
+			t := it.k - it.p
+			v := it.w[it.p]
+			it.below -= e.binom[t][v]
+			it.above += e.binom[t+1][v]
+			it.p++
+		}
+		t := it.k - it.p
+		e.work++
+		return simplex{diam, it.above + e.binom[t+1][j] + it.below}, t&1 == 1, true
+	}
+	return simplex{}, false, false
+}
+
+// zeroCofacet returns the earliest cofacet of s (k vertices) in the
+// filtration if it has the same diameter as s: the cofacet of largest
+// index among those of diameter s.d.
+func (e *engine) zeroCofacet(it *cofaces, s simplex, k int) (simplex, bool) {
+	it.set(s, k, false)
+	for {
+		c, _, ok := it.next()
+		if !ok {
+			return simplex{}, false
+		}
+		if c.d == s.d {
+			return c, true
+		}
+	}
+}
+
+// zeroFacet returns the latest facet of s (k vertices) in the filtration
+// if it has the same diameter as s: the facet of smallest index among
+// those of diameter s.d.
+func (e *engine) zeroFacet(s simplex, k int) (simplex, bool) {
+	var w [maxVerts]int32
+	e.vertices(s.i, k, w[:k])
+	var dd [maxVerts][maxVerts]float64
+	for a := 0; a < k; a++ {
+		for b := a + 1; b < k; b++ {
+			d := e.dist(w[a], w[b])
+			dd[a][b], dd[b][a] = d, d
+		}
+	}
+	// Removing a larger vertex gives a smaller index: try w[0] first.
+	for r := 0; r < k; r++ {
+		fd := 0.0
+		for a := 0; a < k; a++ {
+			for b := a + 1; b < k; b++ {
+				if a != r && b != r && dd[a][b] > fd {
+					fd = dd[a][b]
+				}
+			}
+		}
+		if fd == s.d {
+			var f [maxVerts]int32
+			q := 0
+			for a := 0; a < k; a++ {
+				if a != r {
+					f[q] = w[a]
+					q++
+				}
+			}
+			return simplex{fd, e.index(f[:k-1])}, true
+		}
+	}
+	return simplex{}, false
+}
+
+// apparentAsFacet reports whether s (k vertices) is the facet of a
+// zero-persistence apparent pair.
+func (e *engine) apparentAsFacet(it *cofaces, s simplex, k int) bool {
+	t, ok := e.zeroCofacet(it, s, k)
+	if !ok {
+		return false
+	}
+	f, ok := e.zeroFacet(t, k+1)
+	return ok && f.i == s.i
+}
+
+// apparentFacet returns the facet σ with which t (k vertices) forms a
+// zero-persistence apparent pair (σ, t), if any.
+func (e *engine) apparentFacet(it *cofaces, t simplex, k int) (simplex, bool) {
+	f, ok := e.zeroFacet(t, k)
+	if !ok {
+		return simplex{}, false
+	}
+	c, ok := e.zeroCofacet(it, f, k-1)
+	if ok && c.i == t.i {
+		return f, true
+	}
+	return simplex{}, false
+}
+
+// cofaceSign returns the coefficient (1 or p−1) of t (k+1 vertices) in the
+// coboundary of its facet s.
+func (e *engine) cofaceSign(s simplex, t simplex, k int) int64 {
+	var ws, wt [maxVerts]int32
+	e.vertices(s.i, k, ws[:k])
+	e.vertices(t.i, k+1, wt[:k+1])
+	// Find the vertex of t missing from s; its position from the bottom
+	// is the number of vertices of t below it.
+	q := 0
+	for q < k && ws[q] == wt[q] {
+		q++
+	}
+	pos := k - q
+	if pos&1 == 1 {
+		return e.p - 1
+	}
+	return 1
+}

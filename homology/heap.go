@@ -1,0 +1,98 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package homology
+
+// before reports whether x comes before y in the filtration: smaller
+// diameter, then (reverse colexicographic refinement) larger index.
+// The pivot of a coboundary column is its earliest entry.
+func before(x, y *entry) bool {
+	return x.d < y.d || (x.d == y.d && x.i > y.i)
+}
+
+// entryHeap is a binary min-heap of entries ordered by before. It is
+// written out by hand, without container/heap, so that the comparison
+// inlines.
+type entryHeap struct {
+	a []entry
+}
+
+func (h *entryHeap) reset() { h.a = h.a[:0] }
+
+func (h *entryHeap) push(x entry) {
+	h.a = append(h.a, x)
+	a := h.a
+	i := len(a) - 1
+	for i > 0 {
+		p := (i - 1) / 2
+		if !before(&x, &a[p]) {
+			break
+		}
+		a[i] = a[p]
+		i = p
+	}
+	a[i] = x
+}
+
+// heapify restores the heap order after entries were appended to h.a.
+func (h *entryHeap) heapify() {
+	for i := len(h.a)/2 - 1; i >= 0; i-- {
+		h.down(i)
+	}
+}
+
+func (h *entryHeap) down(i int) {
+	a := h.a
+	n := len(a)
+	x := a[i]
+	for {
+		c := 2*i + 1
+		if c >= n {
+			break
+		}
+		if c+1 < n && before(&a[c+1], &a[c]) {
+			c++
+		}
+		if !before(&a[c], &x) {
+			break
+		}
+		a[i] = a[c]
+		i = c
+	}
+	a[i] = x
+}
+
+func (h *entryHeap) pop() entry {
+	a := h.a
+	top := a[0]
+	last := len(a) - 1
+	a[0] = a[last]
+	h.a = a[:last]
+	if last > 0 {
+		h.down(0)
+	}
+	return top
+}
+
+// pivot removes entries whose coefficients sum to zero mod p from the top
+// and returns the earliest remaining entry, with its summed coefficient,
+// leaving it on the heap.
+func (h *entryHeap) pivot(p int64) (entry, bool) {
+	for len(h.a) > 0 {
+		top := h.a[0]
+		h.pop()
+		c := top.c
+		for len(h.a) > 0 && h.a[0].i == top.i {
+			c += h.a[0].c
+			h.pop()
+		}
+		c %= p
+		if c != 0 {
+			top.c = c
+			h.push(top)
+			return top, true
+		}
+	}
+	return entry{}, false
+}

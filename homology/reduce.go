@@ -1,0 +1,303 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package homology
+
+import (
+	"cmp"
+	"fmt"
+	"math"
+	"slices"
+)
+
+// filtrationOrder sorts simplices of one dimension in filtration order:
+// by diameter, then by decreasing index.
+func filtrationOrder(a, b simplex) int {
+	if c := cmp.Compare(a.d, b.d); c != 0 {
+		return c
+	}
+	return cmp.Compare(b.i, a.i)
+}
+
+// reverseOrder is the order in which cohomology columns are reduced.
+func reverseOrder(a, b simplex) int { return filtrationOrder(b, a) }
+
+// run computes the bars of dimensions 0..maxDim.
+func (e *engine) run() ([][]Bar, error) {
+	bars := make([][]Bar, e.maxDim+1)
+	e.stats.Columns = make([]int64, e.maxDim+1)
+	e.stats.Apparent = make([]int64, e.maxDim+1)
+	e.stats.Emergent = make([]int64, e.maxDim+1)
+	e.stats.Cleared = make([]int64, e.maxDim+1)
+	e.stats.Edges = int64(len(e.edges))
+
+	e.startPhase("edges", 0, int64(len(e.edges)))
+	sortSimplices(e.edges, filtrationOrder)
+	if err := e.ctx.Err(); err != nil {
+		return nil, err
+	}
+	var columns []simplex
+	var err error
+	bars[0], columns, err = e.dim0()
+	if err != nil {
+		return nil, err
+	}
+	simplices := e.edges
+	for d := 1; d <= e.maxDim; d++ {
+		pm := newPivotMap(len(columns))
+		if bars[d], err = e.reduce(columns, d, pm); err != nil {
+			return nil, err
+		}
+		if d < e.maxDim {
+			columns, simplices, err = e.assemble(simplices, pm, d+1, d+1 < e.maxDim)
+			if err != nil {
+				return nil, err
+			}
+		}
+	}
+	for d := range bars {
+		SortBars(bars[d])
+	}
+	return bars, nil
+}
+
+// dim0 computes the H0 bars by union–find over the edges in filtration
+// order, and returns the edges that merge nothing (the columns of H1)
+// in reduction order, without those in zero-persistence apparent pairs.
+func (e *engine) dim0() ([]Bar, []simplex, error) {
+	n := e.n
+	parent := make([]int32, n)
+	rank := make([]uint8, n)
+	for i := range parent {
+		parent[i] = int32(i)
+	}
+	find := func(x int32) int32 {
+		for parent[x] != x {
+			parent[x] = parent[parent[x]]
+			x = parent[x]
+		}
+		return x
+	}
+	var bars []Bar
+	var columns []simplex
+	var w [2]int32
+	it := &cofaces{e: e}
+	wantCols := e.maxDim >= 1
+	for k, s := range e.edges {
+		if e.work >= e.nextTick || k&0xffff == 0 {
+			e.phase.Done = int64(k)
+			if err := e.tick(); err != nil {
+				return nil, nil, err
+			}
+		}
+		e.vertices(s.i, 2, w[:])
+		u, v := find(w[0]), find(w[1])
+		if u != v {
+			if s.d > 0 {
+				bars = append(bars, Bar{0, s.d})
+			}
+			if rank[u] < rank[v] {
+				u, v = v, u
+			}
+			parent[v] = u
+			if rank[u] == rank[v] {
+				rank[u]++
+			}
+			continue
+		}
+		if !wantCols {
+			continue
+		}
+		if e.apparentAsFacet(it, s, 2) {
+			e.stats.Apparent[1]++
+			continue
+		}
+		columns = append(columns, s)
+	}
+	for i := range parent {
+		if find(int32(i)) == int32(i) {
+			bars = append(bars, Bar{0, math.Inf(1)})
+		}
+	}
+	slices.Reverse(columns)
+	return bars, columns, nil
+}
+
+// reduce reduces the coboundary columns of the d-simplices in columns
+// (in reduction order), records the pivots in pm and returns the bars of
+// dimension d.
+func (e *engine) reduce(columns []simplex, d int, pm *pivotMap) ([]Bar, error) {
+	k := d + 1 // vertices of a column simplex
+	p := e.p
+	var bars []Bar
+	it := &cofaces{e: e}
+	ait := &cofaces{e: e}
+	var cob, red entryHeap
+	// The reduction matrix: for column c, the simplices added to it (other
+	// than itself) are vEnt[vStart[c]:vStart[c+1]].
+	vStart := make([]int, len(columns)+1)
+	var vEnt []entry
+	e.stats.Columns[d] = int64(len(columns))
+	e.startPhase("reduce", d, int64(len(columns)))
+
+	// addCob pushes f·δs into cob.
+	addCob := func(s simplex, f int64) {
+		it.set(s, k, false)
+		for {
+			c, neg, ok := it.next()
+			if !ok {
+				return
+			}
+			cf := f
+			if neg {
+				cf = p - f
+			}
+			cob.push(entry{c.d, c.i, cf})
+		}
+	}
+	for ci, col := range columns {
+		if e.work >= e.nextTick {
+			e.phase.Done = int64(ci)
+			if err := e.tick(); err != nil {
+				return nil, err
+			}
+			if int64(cap(cob.a)+cap(red.a))*24+int64(cap(vEnt))*24 > e.budget {
+				return nil, &MemoryError{Estimate: int64(cap(cob.a)+cap(red.a)+cap(vEnt)) * 24, Budget: e.budget, Points: e.n,
+					What: fmt.Sprintf("reducing the H%d columns", d)}
+			}
+		}
+		cob.reset()
+		red.reset()
+		// Enumerate the coboundary; stop at an emergent pair: the first
+		// coface of the same diameter is the pivot, and if no other column
+		// has it, the column is reduced already.
+		it.set(col, k, false)
+		emergent := true
+		settled := false
+		for {
+			c, neg, ok := it.next()
+			if !ok {
+				break
+			}
+			cf := int64(1)
+			if neg {
+				cf = p - 1
+			}
+			if emergent && c.d == col.d {
+				emergent = false
+				if !pm.has(c.i) {
+					if _, ap := e.apparentFacet(ait, c, k+1); !ap {
+						pm.put(c.i, ci, cf)
+						e.stats.Emergent[d]++
+						settled = true
+						break
+					}
+				}
+			}
+			cob.a = append(cob.a, entry{c.d, c.i, cf})
+		}
+		if settled {
+			vStart[ci+1] = len(vEnt)
+			continue
+		}
+		cob.heapify()
+		for {
+			piv, ok := cob.pivot(p)
+			if !ok {
+				bars = append(bars, Bar{col.d, math.Inf(1)})
+				break
+			}
+			if oc, oc_c, found := pm.get(piv.i); found {
+				f := (p - piv.c*e.inv[oc_c]%p) % p
+				other := columns[oc]
+				red.push(entry{other.d, other.i, f})
+				addCob(other, f)
+				for _, v := range vEnt[vStart[oc]:vStart[oc+1]] {
+					g := v.c * f % p
+					red.push(entry{v.d, v.i, g})
+					addCob(simplex{v.d, v.i}, g)
+				}
+			} else if sf, ap := e.apparentFacet(ait, simplex{piv.d, piv.i}, k+1); ap {
+				sign := e.cofaceSign(sf, simplex{piv.d, piv.i}, k)
+				f := (p - piv.c*e.inv[sign]%p) % p
+				red.push(entry{sf.d, sf.i, f})
+				addCob(sf, f)
+			} else {
+				pm.put(piv.i, ci, piv.c)
+				if piv.d > col.d {
+					bars = append(bars, Bar{col.d, piv.d})
+				}
+				// Store the reduction column.
+				for {
+					r, ok := red.pivot(p)
+					if !ok {
+						break
+					}
+					red.pop()
+					vEnt = append(vEnt, r)
+				}
+				break
+			}
+			if e.work >= e.nextTick {
+				if err := e.tick(); err != nil {
+					return nil, err
+				}
+			}
+		}
+		vStart[ci+1] = len(vEnt)
+	}
+	return bars, nil
+}
+
+// assemble lists the (d)-simplices as top cofaces of the (d−1)-simplices
+// in prev, and returns those that must be reduced (not cleared by pm and
+// not in a zero-persistence apparent pair) in reduction order. With
+// keep, it also returns all d-simplices.
+func (e *engine) assemble(prev []simplex, pm *pivotMap, d int, keep bool) (cols, all []simplex, err error) {
+	k := d + 1
+	it := &cofaces{e: e}
+	ait := &cofaces{e: e}
+	e.startPhase("assemble", d, int64(len(prev)))
+	for pi, s := range prev {
+		if e.work >= e.nextTick || pi&0xfff == 0 {
+			e.phase.Done = int64(pi)
+			if err := e.tick(); err != nil {
+				return nil, nil, err
+			}
+			if est := int64(cap(cols)+cap(all)) * 16; est > e.budget {
+				return nil, nil, &MemoryError{Estimate: est, Budget: e.budget, Points: e.n,
+					What: fmt.Sprintf("listing the %d-simplices", d)}
+			}
+		}
+		it.set(s, k-1, true)
+		for {
+			c, _, ok := it.next()
+			if !ok {
+				break
+			}
+			if keep {
+				all = append(all, c)
+			}
+			if pm.has(c.i) {
+				e.stats.Cleared[d]++
+				continue
+			}
+			if _, ap := e.apparentFacet(ait, c, k); ap {
+				e.stats.Cleared[d]++
+				continue
+			}
+			if d < e.maxDim+1 && e.apparentAsFacet(ait, c, k) {
+				e.stats.Apparent[d]++
+				continue
+			}
+			cols = append(cols, c)
+		}
+	}
+	sortSimplices(cols, reverseOrder)
+	return cols, all, nil
+}
+
+func sortSimplices(s []simplex, order func(a, b simplex) int) {
+	slices.SortFunc(s, order)
+}
