@@ -1,0 +1,93 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package main
+
+import (
+	"bufio"
+	"context"
+	"fmt"
+	"io"
+	"strconv"
+
+	"gonum.org/v1/gonum/mat"
+
+	"crease.dev/crease/internal/csvnum"
+	"crease.dev/crease/onnxload"
+)
+
+func init() {
+	register(&command{
+		name:    "forward",
+		summary: "push a CSV sample through an ONNX model and print a stage's output",
+		run:     runForward,
+	})
+}
+
+func runForward(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer) error {
+	fs := newFlagSet("forward", "[--stage K] [--fuse] MODEL.onnx INPUT.csv", stderr)
+	stage := fs.Int("stage", -1, "index of the stage whose output to print, as listed by 'crease stages'; negative counts from the end (-1 is the last)")
+	fuse := fs.Bool("fuse", false, "fuse consecutive affine stages, so K counts layers")
+	pos, err := parseFlags(fs, args)
+	if err != nil {
+		return err
+	}
+	if len(pos) != 2 {
+		fs.Usage()
+		return fmt.Errorf("usage: want a model and an input file (- for stdin), got %d arguments", len(pos))
+	}
+	_, stages, err := loadModelStages(pos[0], *fuse)
+	if err != nil {
+		return err
+	}
+	k := *stage
+	if k < 0 {
+		k += len(stages)
+	}
+	if k < 0 || k >= len(stages) {
+		return fmt.Errorf("--stage %d is out of range: %s has %d stages (0 to %d)", *stage, pos[0], len(stages), len(stages)-1)
+	}
+	r, closeIn, name, err := openInput(pos[1], stdin)
+	if err != nil {
+		return err
+	}
+	rows, width, err := csvnum.Read(r, name, nil)
+	closeIn()
+	if err != nil {
+		return err
+	}
+	if width != stages[0].In {
+		return fmt.Errorf("%s has %d columns but %s takes inputs of width %d", name, width, pos[0], stages[0].In)
+	}
+	x := mat.NewDense(len(rows), width, nil)
+	for i, row := range rows {
+		x.SetRow(i, row)
+	}
+	outs, err := onnxload.Forward(ctx, stages[:k+1], x, nil)
+	if err != nil {
+		return err
+	}
+	return writeForwardCSV(stdout, outs[k])
+}
+
+// writeForwardCSV prints m one row per line with %.17g, which round-trips.
+func writeForwardCSV(w io.Writer, m *mat.Dense) error {
+	bw := bufio.NewWriter(w)
+	r, c := m.Dims()
+	buf := make([]byte, 0, 32*c)
+	for i := 0; i < r; i++ {
+		buf = buf[:0]
+		for j := 0; j < c; j++ {
+			if j > 0 {
+				buf = append(buf, ',')
+			}
+			buf = strconv.AppendFloat(buf, m.At(i, j), 'g', 17, 64)
+		}
+		buf = append(buf, '\n')
+		if _, err := bw.Write(buf); err != nil {
+			return err
+		}
+	}
+	return bw.Flush()
+}
