@@ -22,12 +22,23 @@ type simplex struct {
 	i int64
 }
 
-// entry is a simplex with a coefficient in Z/p.
+// entry is a simplex with a coefficient in Z/p, packed as
+// index<<coefBits | coefficient so that a heap entry takes 16 bytes.
 type entry struct {
 	d float64
-	i int64
-	c int64
+	k uint64
 }
+
+// coefBits is the number of low bits of entry.k holding the coefficient.
+const coefBits = 8
+
+// indexLimit bounds simplex indices so that they pack into entry.k.
+const indexLimit = int64(1) << (63 - coefBits)
+
+func mkEntry(d float64, i, c int64) entry { return entry{d, uint64(i)<<coefBits | uint64(c)} }
+
+func (x entry) idx() int64  { return int64(x.k >> coefBits) }
+func (x entry) coef() int64 { return int64(x.k & (1<<coefBits - 1)) }
 
 // engine holds the 1-skeleton of the Rips complex within the threshold
 // as neighbour lists, and the tables needed to enumerate cofaces.
@@ -87,9 +98,9 @@ func (e *engine) startPhase(name string, dim int, total int64) {
 }
 
 // makeBinomials fills e.binom, refusing with ErrOverflow when the indices
-// of (maxDim+1)-simplices on n vertices would not fit in 62 bits.
+// of (maxDim+1)-simplices on n vertices would not fit in 55 bits.
 func (e *engine) makeBinomials() error {
-	const limit = int64(1) << 62
+	const limit = indexLimit
 	top := e.maxDim + 2
 	for t := 0; t <= maxVerts; t++ {
 		e.binom[t] = make([]int64, e.n+1)
@@ -103,7 +114,7 @@ func (e *engine) makeBinomials() error {
 			s := e.binom[t-1][v-1] + e.binom[t][v-1]
 			if s >= limit || s < 0 {
 				if t <= top {
-					return fmt.Errorf("%w: C(%d,%d) exceeds 2⁶²; %d points are too many for dimension %d (use Landmarks)", ErrOverflow, v, t, e.n, e.maxDim)
+					return fmt.Errorf("%w: C(%d,%d) exceeds 2⁵⁵; %d points are too many for dimension %d (use Landmarks)", ErrOverflow, v, t, e.n, e.maxDim)
 				}
 				s = limit // unused entries; keep them saturated
 			}

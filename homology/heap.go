@@ -8,7 +8,7 @@ package homology
 // diameter, then (reverse colexicographic refinement) larger index.
 // The pivot of a coboundary column is its earliest entry.
 func before(x, y *entry) bool {
-	return x.d < y.d || (x.d == y.d && x.i > y.i)
+	return x.d < y.d || (x.d == y.d && x.k > y.k)
 }
 
 // entryHeap is a binary min-heap of entries ordered by before. It is
@@ -82,17 +82,18 @@ func (h *entryHeap) pivot(p int64) (entry, bool) {
 	for len(h.a) > 0 {
 		top := h.a[0]
 		h.pop()
-		c := top.c
-		for len(h.a) > 0 && h.a[0].i == top.i {
-			c += h.a[0].c
+		c := top.coef()
+		for len(h.a) > 0 && h.a[0].k>>coefBits == top.k>>coefBits {
+			c += h.a[0].coef()
 			h.pop()
 		}
 		c %= p
 		if c != 0 {
-			top.c = c
+			top.k = top.k&^(1<<coefBits-1) | uint64(c)
 			h.push(top)
 			return top, true
 		}
 	}
 	return entry{}, false
 }
+

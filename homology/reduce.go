@@ -153,7 +153,7 @@ func (e *engine) reduce(columns []simplex, d int, pm *pivotMap) ([]Bar, error) {
 			if neg {
 				cf = p - f
 			}
-			cob.push(entry{c.d, c.i, cf})
+			cob.push(mkEntry(c.d, c.i, cf))
 		}
 	}
 	for ci, col := range columns {
@@ -162,8 +162,8 @@ func (e *engine) reduce(columns []simplex, d int, pm *pivotMap) ([]Bar, error) {
 			if err := e.tick(); err != nil {
 				return nil, err
 			}
-			if int64(cap(cob.a)+cap(red.a))*24+int64(cap(vEnt))*24 > e.budget {
-				return nil, &MemoryError{Estimate: int64(cap(cob.a)+cap(red.a)+cap(vEnt)) * 24, Budget: e.budget, Points: e.n,
+			if est := int64(cap(cob.a)+cap(red.a)+cap(vEnt)) * 16; est > e.budget {
+				return nil, &MemoryError{Estimate: est, Budget: e.budget, Points: e.n,
 					What: fmt.Sprintf("reducing the H%d columns", d)}
 			}
 		}
@@ -195,7 +195,7 @@ func (e *engine) reduce(columns []simplex, d int, pm *pivotMap) ([]Bar, error) {
 					}
 				}
 			}
-			cob.a = append(cob.a, entry{c.d, c.i, cf})
+			cob.a = append(cob.a, mkEntry(c.d, c.i, cf))
 		}
 		if settled {
 			vStart[ci+1] = len(vEnt)
@@ -208,23 +208,24 @@ func (e *engine) reduce(columns []simplex, d int, pm *pivotMap) ([]Bar, error) {
 				bars = append(bars, Bar{col.d, math.Inf(1)})
 				break
 			}
-			if oc, oc_c, found := pm.get(piv.i); found {
-				f := (p - piv.c*e.inv[oc_c]%p) % p
+			pc, pi := piv.coef(), piv.idx()
+			if oc, ocC, found := pm.get(pi); found {
+				f := (p - pc*e.inv[ocC]%p) % p
 				other := columns[oc]
-				red.push(entry{other.d, other.i, f})
+				red.push(mkEntry(other.d, other.i, f))
 				addCob(other, f)
 				for _, v := range vEnt[vStart[oc]:vStart[oc+1]] {
-					g := v.c * f % p
-					red.push(entry{v.d, v.i, g})
-					addCob(simplex{v.d, v.i}, g)
+					g := v.coef() * f % p
+					red.push(mkEntry(v.d, v.idx(), g))
+					addCob(simplex{v.d, v.idx()}, g)
 				}
-			} else if sf, ap := e.apparentFacet(ait, simplex{piv.d, piv.i}, k+1); ap {
-				sign := e.cofaceSign(sf, simplex{piv.d, piv.i}, k)
-				f := (p - piv.c*e.inv[sign]%p) % p
-				red.push(entry{sf.d, sf.i, f})
+			} else if sf, ap := e.apparentFacet(ait, simplex{piv.d, pi}, k+1); ap {
+				sign := e.cofaceSign(sf, simplex{piv.d, pi}, k)
+				f := (p - pc*e.inv[sign]%p) % p
+				red.push(mkEntry(sf.d, sf.i, f))
 				addCob(sf, f)
 			} else {
-				pm.put(piv.i, ci, piv.c)
+				pm.put(pi, ci, pc)
 				if piv.d > col.d {
 					bars = append(bars, Bar{col.d, piv.d})
 				}

@@ -52,7 +52,7 @@ func ParseMetric(s string) (Metric, error) {
 }
 
 // MaxField is the largest prime accepted as Settings.Field.
-const MaxField = 65521
+const MaxField = 251
 
 // DefaultMaxBytes is the memory budget used when Settings.MaxBytes is 0.
 const DefaultMaxBytes = 4 << 30
@@ -121,7 +121,7 @@ var (
 	// ErrDistances is returned for an invalid distance matrix or edge list.
 	ErrDistances = errors.New("homology: invalid distances")
 	// ErrOverflow is returned when simplex indices of the requested
-	// dimension do not fit in 63 bits for this many points.
+	// dimension do not fit in 55 bits for this many points.
 	ErrOverflow = errors.New("homology: simplex index overflow")
 )
 
