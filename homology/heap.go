@@ -96,4 +96,3 @@ func (h *entryHeap) pivot(p int64) (entry, bool) {
 	}
 	return entry{}, false
 }
-
