@@ -142,6 +142,9 @@ func writeFileAtomic(path string, write func(io.Writer) error) (err error) {
 	if err = write(f); err != nil {
 		return err
 	}
+	if err = f.Chmod(0o644); err != nil {
+		return err
+	}
 	if err = f.Sync(); err != nil {
 		return err
 	}
