@@ -871,6 +871,9 @@ func (d *decoder) tensor(b []byte, kind string) (*Tensor, error) {
 	if external {
 		return nil, &UnsupportedError{Where: kind, Reason: "tensor data stored outside the file (external data) is not supported"}
 	}
+	if t.DataType == Undefined {
+		return nil, formatf(kind, "data_type is not set")
+	}
 	if !t.DataType.isFloat() && !t.DataType.isInt() {
 		return nil, &UnsupportedError{Where: kind, Reason: fmt.Sprintf("element type %v is not supported (want float32 or float64)", t.DataType)}
 	}
