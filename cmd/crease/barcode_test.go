@@ -1,0 +1,103 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package main
+
+import (
+	"bytes"
+	"context"
+	"fmt"
+	"math"
+	"strings"
+	"testing"
+)
+
+func runBarcodeCLI(t *testing.T, stdin string, args ...string) (int, string, string) {
+	t.Helper()
+	var out, errb bytes.Buffer
+	code := creaseMain(context.Background(), append([]string{"barcode"}, args...), strings.NewReader(stdin), &out, &errb)
+	return code, out.String(), errb.String()
+}
+
+func TestBarcodeCLI(t *testing.T) {
+	// Unit square: three H0 bars die at the side length 1 and the loop
+	// lives from 1 to the diagonal √2 (hand-checked).
+	square := "0,0\n1,0\n1,1\n0,1\n"
+	// Regular hexagon of side 1: H1 [1,√3) and H2 [√3,2) (hand-checked:
+	// the complex at scale √3 is the boundary of an octahedron).
+	var hex strings.Builder
+	for i := 0; i < 6; i++ {
+		a := float64(i) * math.Pi / 3
+		fmt.Fprintf(&hex, "%.17g,%.17g\n", math.Cos(a), math.Sin(a))
+	}
+	for _, test := range []struct {
+		name  string
+		in    string
+		args  []string
+		want  string
+		match func(string) bool
+	}{
+		{name: "square", in: square, args: []string{"-"},
+			want: "0\t0\t1\n0\t0\t1\n0\t0\t1\n0\t0\tinf\n1\t1\t1.4142135623730951\n"},
+		{name: "square H0 only, flags after file", in: square, args: []string{"-", "--maxdim", "0"},
+			want: "0\t0\t1\n0\t0\t1\n0\t0\t1\n0\t0\tinf\n"},
+		{name: "square truncated", in: square, args: []string{"-", "--threshold", "1.2"},
+			want: "0\t0\t1\n0\t0\t1\n0\t0\t1\n0\t0\tinf\n1\t1\tinf\n"},
+		{name: "hexagon H2", in: hex.String(), args: []string{"--maxdim", "2", "-"},
+			match: func(s string) bool {
+				lines := strings.Split(strings.TrimSpace(s), "\n")
+				return len(lines) == 8 && strings.HasPrefix(lines[6], "1\t") && strings.HasPrefix(lines[7], "2\t1.73205080756887")
+			}},
+		{name: "landmarks", in: square, args: []string{"-", "--landmarks", "2", "--seed", "3"},
+			want: "0\t0\t1.4142135623730951\n0\t0\tinf\n"}, // max–min picks opposite corners
+	} {
+		t.Run(test.name, func(t *testing.T) {
+			code, out, errs := runBarcodeCLI(t, test.in, test.args...)
+			if code != 0 {
+				t.Fatalf("exit %d, stderr %q", code, errs)
+			}
+			if test.match != nil {
+				if !test.match(out) {
+					t.Errorf("unexpected output:\n%s", out)
+				}
+			} else if out != test.want {
+				t.Errorf("got\n%s\nwant\n%s", out, test.want)
+			}
+		})
+	}
+}
+
+func TestBarcodeCLIBadInput(t *testing.T) {
+	for _, test := range []struct {
+		name, in string
+		args     []string
+		want     string // substring of stderr
+	}{
+		{"non-numeric", "0,0\n1,zz\n", []string{"-"}, "<stdin>:2: column 2"},
+		{"ragged", "0,0\n1,2,3\n", []string{"-"}, "<stdin>:2"},
+		{"nan", "0,0\nNaN,1\n", []string{"-"}, "<stdin>:2: column 1"},
+		{"empty", "", []string{"-"}, "no data rows"},
+		{"one point", "1,2\n", []string{"-"}, "at least 2 points"},
+		{"maxdim", "0,0\n1,1\n", []string{"-", "--maxdim", "4"}, "maximal dimension 4"},
+		{"field", "0,0\n1,1\n", []string{"-", "--field", "4"}, "field 4 is not a prime"},
+		{"threshold", "0,0\n1,1\n", []string{"-", "--threshold", "-1"}, "threshold -1"},
+		{"k too big", "0,0\n1,1\n", []string{"-", "--metric", "knn", "--k", "2"}, "K < 2 points"},
+		{"metric", "0,0\n1,1\n", []string{"-", "--metric", "manhattan"}, "unknown metric"},
+		{"no file", "", nil, "usage"},
+		{"missing file", "", []string{"/nonexistent/points.csv"}, "no such file"},
+	} {
+		t.Run(test.name, func(t *testing.T) {
+			code, out, errs := runBarcodeCLI(t, test.in, test.args...)
+			if code != 2 {
+				t.Errorf("exit %d, want 2", code)
+			}
+			if out != "" {
+				t.Errorf("wrote %q to stdout", out)
+			}
+			if !strings.Contains(errs, test.want) {
+				t.Errorf("stderr %q does not contain %q", errs, test.want)
+			}
+		})
+	}
+}
