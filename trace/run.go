@@ -1,0 +1,354 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package trace
+
+import (
+	"context"
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"math"
+	"os"
+	"runtime"
+	"sync"
+	"time"
+
+	"gonum.org/v1/gonum/mat"
+
+	"crease.dev/crease/homology"
+	"crease.dev/crease/onnxload"
+)
+
+// Version is the tool version recorded in traces.
+const Version = "0.1.0"
+
+// RunFile opens the ONNX model at path, extracts its stages (one stage
+// per node, onnxload's default view), runs the trace and records the
+// file name and SHA-256 in Trace.Model.
+func RunFile(ctx context.Context, path string, s *Sample, set *Settings) (*Trace, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, err
+	}
+	m, err := onnxload.Open(path, nil)
+	if err != nil {
+		return nil, err
+	}
+	stages, err := m.Stages(nil)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", path, err)
+	}
+	sum := sha256.Sum256(data)
+	t, err := Run(ctx, stages, s, set)
+	if t != nil {
+		t.Model = ModelInfo{File: path, SHA256: hex.EncodeToString(sum[:])}
+	}
+	return t, err
+}
+
+// task is one unit of parallel work: a group's homology (group ≥ 0 is a
+// class, −1 the whole sample) or a stage's measures (measures true).
+type task struct {
+	stage, group int
+	measures     bool
+}
+
+// Run pushes the sample through stages and records every stage. The
+// sample is first capped per class (Settings.Cap, Settings.Seed). Work
+// runs in parallel over stages × groups, bounded by Settings.Workers.
+//
+// Run returns an error naming the problem for a nil or too small
+// sample, a sample whose width differs from the model's input width, or
+// invalid settings. If ctx is cancelled, Run returns a Trace holding the
+// stages finished before the first unfinished one, together with
+// ctx.Err().
+func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings) (*Trace, error) {
+	start := time.Now()
+	if set == nil {
+		set = DefaultSettings()
+	}
+	rs, err := set.resolve()
+	if err != nil {
+		return nil, err
+	}
+	if s == nil || s.X == nil {
+		return nil, errors.New("trace: no sample")
+	}
+	if err := s.checkCounts(); err != nil {
+		return nil, err
+	}
+	s = s.Cap(rs.Cap, rs.Seed)
+	n, width := s.X.Dims()
+	if len(stages) > 0 && stages[0].In != width {
+		return nil, fmt.Errorf("trace: the data has %d feature columns but the model's input width is %d", width, stages[0].In)
+	}
+	var timing Timing
+	t0 := time.Now()
+	acts, err := onnxload.Forward(ctx, stages, s.X, &onnxload.ForwardSettings{Workers: rs.Workers})
+	if err != nil {
+		return nil, err
+	}
+	timing.Forward = time.Since(t0)
+	clouds := make([]*mat.Dense, 0, len(stages)+1)
+	clouds = append(clouds, s.X)
+	clouds = append(clouds, acts...)
+	for i, c := range clouds {
+		if err := checkFinite(c); err != nil {
+			return nil, fmt.Errorf("trace: stage %d: %w", i, err)
+		}
+	}
+
+	tr := &Trace{
+		Schema:   SchemaVersion,
+		Tool:     "crease " + Version,
+		Settings: rs,
+		Sample: SampleInfo{
+			Source: s.Source, Rows: s.SourceRows, Width: width,
+			Classes: s.Classes, Indices: s.Rows, Labels: s.Labels,
+		},
+		Stages: make([]Stage, len(clouds)),
+	}
+	tr.Settings.Workers, tr.Settings.Timing, tr.Settings.Progress = 0, false, nil
+	members := make([][]int, len(s.Classes))
+	for i, l := range s.Labels {
+		members[l] = append(members[l], i)
+	}
+	counts := s.Counts()
+	for i, c := range clouds {
+		st := &tr.Stages[i]
+		st.Index = i
+		_, st.Width = c.Dims()
+		if i == 0 {
+			st.Kind = InputKind
+		} else {
+			ms := &stages[i-1]
+			st.Kind = ms.Kind.String()
+			st.In = ms.In
+			st.Nodes = append([]string(nil), ms.Nodes...)
+		}
+		st.Whole = Group{Count: n}
+		st.Classes = make([]Group, len(s.Classes))
+		for c := range s.Classes {
+			st.Classes[c] = Group{Label: s.Classes[c], Count: counts[c]}
+		}
+	}
+
+	var tasks []task
+	for i := range clouds {
+		if rs.Whole {
+			tasks = append(tasks, task{stage: i, group: -1})
+		}
+		for c := range s.Classes {
+			tasks = append(tasks, task{stage: i, group: c})
+		}
+		if i > 0 {
+			tasks = append(tasks, task{stage: i, measures: true})
+		}
+	}
+	workers := rs.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	var (
+		mu        sync.Mutex
+		done      int
+		left      = make([]int, len(clouds)) // unfinished tasks per stage
+		firstErr  error
+		stageTime = make([]time.Duration, len(clouds))
+	)
+	for _, tk := range tasks {
+		left[tk.stage]++
+	}
+	next := make(chan task)
+	var wg sync.WaitGroup
+	for range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for tk := range next {
+				if ctx.Err() != nil {
+					continue
+				}
+				st := &tr.Stages[tk.stage]
+				var err error
+				var part string
+				var dh, dr, do time.Duration
+				switch {
+				case tk.measures:
+					part = "measures"
+					dr, do, err = stageMeasures(ctx, st, clouds[tk.stage-1], clouds[tk.stage], &stages[tk.stage-1], s.Labels, rs)
+				case tk.group < 0:
+					part = "whole"
+					t := time.Now()
+					err = group(ctx, &st.Whole, clouds[tk.stage], nil, rs)
+					dh = time.Since(t)
+				default:
+					part = s.Classes[tk.group]
+					t := time.Now()
+					err = group(ctx, &st.Classes[tk.group], clouds[tk.stage], members[tk.group], rs)
+					dh = time.Since(t)
+				}
+				mu.Lock()
+				timing.Homology += dh
+				timing.Relu += dr
+				timing.Overlap += do
+				stageTime[tk.stage] += dh
+				if err != nil {
+					if firstErr == nil && ctx.Err() == nil {
+						firstErr = fmt.Errorf("trace: stage %d (%s), %s: %w", tk.stage, st.Kind, part, err)
+					}
+				} else {
+					left[tk.stage]--
+					done++
+					if set.Progress != nil {
+						set.Progress(Progress{Done: done, Total: len(tasks), Stage: tk.stage, Part: part})
+					}
+				}
+				mu.Unlock()
+			}
+		}()
+	}
+	for _, tk := range tasks {
+		mu.Lock()
+		stop := firstErr != nil
+		mu.Unlock()
+		if stop || ctx.Err() != nil {
+			break
+		}
+		next <- tk
+	}
+	close(next)
+	wg.Wait()
+	if firstErr != nil {
+		return nil, firstErr
+	}
+	if set.Timing {
+		timing.Total = time.Since(start)
+		timing.Stages = stageTime
+		tr.Timing = &timing
+	}
+	if err := ctx.Err(); err != nil {
+		k := 0
+		for k < len(left) && left[k] == 0 {
+			k++
+		}
+		tr.Stages = tr.Stages[:k]
+		if tr.Timing != nil {
+			tr.Timing.Stages = tr.Timing.Stages[:k]
+		}
+		return tr, err
+	}
+	return tr, nil
+}
+
+// checkFinite reports the first NaN or ±Inf in m.
+func checkFinite(m *mat.Dense) error {
+	r, c := m.Dims()
+	for i := range r {
+		for j, v := range m.RawRowView(i)[:c] {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return fmt.Errorf("row %d, column %d is %v", i+1, j+1, v)
+			}
+		}
+	}
+	return nil
+}
+
+// rowsOf returns the rows idx of m (all rows when idx is nil).
+func rowsOf(m *mat.Dense, idx []int) *mat.Dense {
+	if idx == nil {
+		return m
+	}
+	_, c := m.Dims()
+	out := mat.NewDense(len(idx), c, nil)
+	for k, i := range idx {
+		out.SetRow(k, m.RawRowView(i))
+	}
+	return out
+}
+
+// diameter returns the largest Euclidean distance between rows of m.
+func diameter(m *mat.Dense) float64 {
+	r, _ := m.Dims()
+	var best float64
+	for i := range r {
+		a := m.RawRowView(i)
+		for j := i + 1; j < r; j++ {
+			b := m.RawRowView(j)
+			var s float64
+			for k, v := range a {
+				d := v - b[k]
+				s += d * d
+			}
+			best = max(best, s)
+		}
+	}
+	return math.Sqrt(best)
+}
+
+// group computes the barcode and Betti numbers of rows idx of cloud
+// into g by the scale rule.
+func group(ctx context.Context, g *Group, cloud *mat.Dense, idx []int, rs Settings) error {
+	pts := rowsOf(cloud, idx)
+	diam := diameter(pts)
+	hs := &homology.Settings{MaxDim: rs.MaxDim}
+	switch rs.Rule {
+	case ScaleRelative:
+		hs.Threshold = rs.Scale * diam
+	case ScalePersistence:
+		hs.Threshold = rs.MaxThreshold * diam
+	case ScaleHops:
+		hs.Metric = homology.KNNGeodesic
+		hs.K = min(rs.K, g.Count-1)
+		hs.Threshold = float64(rs.Hops)
+	}
+	if diam == 0 && rs.Rule != ScaleHops {
+		// Every point is the same: one component, nothing else. The
+		// Rips complex is a full simplex at every scale.
+		g.Diameter, g.Scale, g.Threshold = 0, 0, 0
+		g.Betti = make([]int, rs.MaxDim+1)
+		g.Betti[0] = 1
+		g.Bars = make([][]Bar, rs.MaxDim+1)
+		g.Bars[0] = []Bar{{Birth: 0, Death: math.Inf(1)}}
+		for d := 1; d <= rs.MaxDim; d++ {
+			g.Bars[d] = []Bar{}
+		}
+		return nil
+	}
+	bc, err := homology.Rips(ctx, pts, hs)
+	if err != nil {
+		return err
+	}
+	g.Diameter = diam
+	g.Threshold = bc.Threshold
+	g.Truncated = bc.Truncated
+	g.Bars = make([][]Bar, len(bc.Bars))
+	for d, bars := range bc.Bars {
+		g.Bars[d] = make([]Bar, len(bars))
+		for k, b := range bars {
+			g.Bars[d][k] = Bar{Birth: b.Birth, Death: b.Death}
+		}
+	}
+	switch rs.Rule {
+	case ScaleRelative:
+		g.Scale = rs.Scale * diam
+		g.Betti = bc.Betti(g.Scale)
+	case ScaleHops:
+		g.Scale = float64(rs.Hops)
+		g.Betti = bc.Betti(g.Scale)
+	case ScalePersistence:
+		g.Scale = rs.Persistence * diam
+		g.Betti = make([]int, len(g.Bars))
+		for d, bars := range g.Bars {
+			for _, b := range bars {
+				if b.Persistence() >= g.Scale {
+					g.Betti[d]++
+				}
+			}
+		}
+	}
+	return nil
+}

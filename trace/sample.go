@@ -1,0 +1,386 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package trace
+
+import (
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"math/rand/v2"
+	"slices"
+	"sort"
+	"strconv"
+	"strings"
+
+	"codeberg.org/sbinet/npyio"
+	"gonum.org/v1/gonum/mat"
+)
+
+// MinClassPoints is the fewest points a class may have.
+const MinClassPoints = 3
+
+// Sample is a labeled point cloud: one row per point. Build one with
+// NewSample, NewSampleInts, ReadCSV or ReadNPY. A Sample is not changed
+// by this package and is safe for concurrent reads.
+type Sample struct {
+	// X holds the points, n × width.
+	X *mat.Dense
+	// Labels[i] is the class index of row i, 0..len(Classes)−1.
+	Labels []int
+	// Classes holds the class names.
+	Classes []string
+	// Rows[i] is the 0-based row number of row i in the source.
+	Rows []int
+	// Source names the origin (a file name), or is empty.
+	Source string
+	// SourceRows is the number of rows in the source before capping.
+	SourceRows int
+}
+
+// NewSample returns a sample of the rows of x labeled by the strings
+// labels. Classes are ordered numerically when every label is an
+// integer, else lexically. It copies x. It returns an error if the
+// lengths differ, x holds NaN or ±Inf, or a class has fewer than
+// MinClassPoints rows.
+func NewSample(x mat.Matrix, labels []string) (*Sample, error) {
+	n, d := x.Dims()
+	if n != len(labels) {
+		return nil, fmt.Errorf("trace: %d rows but %d labels", n, len(labels))
+	}
+	if n == 0 || d == 0 {
+		return nil, errors.New("trace: empty sample")
+	}
+	for i := range n {
+		for j := range d {
+			if v := x.At(i, j); math.IsNaN(v) || math.IsInf(v, 0) {
+				return nil, fmt.Errorf("trace: row %d, column %d: %v is not finite", i+1, j+1, v)
+			}
+		}
+	}
+	classes := classOrder(labels)
+	index := make(map[string]int, len(classes))
+	for c, name := range classes {
+		index[name] = c
+	}
+	s := &Sample{X: mat.DenseCopyOf(x), Labels: make([]int, n), Classes: classes, Rows: make([]int, n), SourceRows: n}
+	for i, l := range labels {
+		s.Labels[i] = index[l]
+		s.Rows[i] = i
+	}
+	if err := s.checkCounts(); err != nil {
+		return nil, err
+	}
+	return s, nil
+}
+
+// NewSampleInts is NewSample with integer labels; class names are the
+// decimal labels.
+func NewSampleInts(x mat.Matrix, labels []int) (*Sample, error) {
+	ls := make([]string, len(labels))
+	for i, l := range labels {
+		ls[i] = strconv.Itoa(l)
+	}
+	return NewSample(x, ls)
+}
+
+// classOrder returns the distinct labels, numerically sorted when all
+// are integers, else lexically.
+func classOrder(labels []string) []string {
+	seen := map[string]bool{}
+	var out []string
+	numeric := true
+	for _, l := range labels {
+		if !seen[l] {
+			seen[l] = true
+			out = append(out, l)
+			if _, err := strconv.ParseInt(l, 10, 64); err != nil {
+				numeric = false
+			}
+		}
+	}
+	if numeric {
+		sort.Slice(out, func(i, j int) bool {
+			a, _ := strconv.ParseInt(out[i], 10, 64)
+			b, _ := strconv.ParseInt(out[j], 10, 64)
+			return a < b
+		})
+	} else {
+		sort.Strings(out)
+	}
+	return out
+}
+
+// Counts returns the number of rows of each class.
+func (s *Sample) Counts() []int {
+	c := make([]int, len(s.Classes))
+	for _, l := range s.Labels {
+		c[l]++
+	}
+	return c
+}
+
+func (s *Sample) checkCounts() error {
+	for c, k := range s.Counts() {
+		if k < MinClassPoints {
+			return fmt.Errorf("trace: class %q has %d points, need at least %d", s.Classes[c], k, MinClassPoints)
+		}
+	}
+	return nil
+}
+
+// Cap returns a sample with at most perClass rows of each class, chosen
+// uniformly at random with the seed (stratified subsampling); chosen
+// rows keep their original order. perClass ≤ 0 means no cap. A class at
+// or under the cap is kept whole. The same seed gives the same rows.
+func (s *Sample) Cap(perClass int, seed uint64) *Sample {
+	if perClass <= 0 {
+		return s
+	}
+	byClass := make([][]int, len(s.Classes))
+	for i, l := range s.Labels {
+		byClass[l] = append(byClass[l], i)
+	}
+	rng := rand.New(rand.NewPCG(seed, 0x63726561736521))
+	var keep []int
+	for _, idx := range byClass {
+		if len(idx) > perClass {
+			idx = slices.Clone(idx)
+			rng.Shuffle(len(idx), func(i, j int) { idx[i], idx[j] = idx[j], idx[i] })
+			idx = idx[:perClass]
+		}
+		keep = append(keep, idx...)
+	}
+	sort.Ints(keep)
+	if len(keep) == len(s.Labels) {
+		return s
+	}
+	_, d := s.X.Dims()
+	out := &Sample{X: mat.NewDense(len(keep), d, nil), Labels: make([]int, len(keep)), Classes: s.Classes, Rows: make([]int, len(keep)), Source: s.Source, SourceRows: s.SourceRows}
+	for k, i := range keep {
+		out.X.SetRow(k, s.X.RawRowView(i))
+		out.Labels[k] = s.Labels[i]
+		out.Rows[k] = s.Rows[i]
+	}
+	return out
+}
+
+// CSVSettings control ReadCSV.
+type CSVSettings struct {
+	// Label names the label column: a header name, or a 1-based column
+	// number. Empty means the last column. A header name takes
+	// precedence over a number.
+	Label string
+	// Header says whether the first record is a header: "auto" (the
+	// zero value "" too) treats it as a header when one of its feature
+	// cells is not a number, or when Label is not a column number;
+	// "yes" and "no" force it.
+	Header string
+}
+
+// ReadCSV reads a labeled sample: comma-separated records, one per
+// point, with one label column (strings or integers) and numeric
+// feature columns. Lines starting with '#' are skipped. Errors name the
+// file (name), line and column. See CSVSettings for the header rule.
+func ReadCSV(r io.Reader, name string, set *CSVSettings) (*Sample, error) {
+	if set == nil {
+		set = &CSVSettings{}
+	}
+	cr := csv.NewReader(r)
+	cr.Comment = '#'
+	cr.TrimLeadingSpace = true
+	var records [][]string
+	var lines []int
+	for {
+		rec, err := cr.Read()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			var pe *csv.ParseError
+			if errors.As(err, &pe) {
+				return nil, fmt.Errorf("%s:%d: column %d: %v", name, pe.Line, pe.Column, pe.Err)
+			}
+			return nil, fmt.Errorf("%s: %w", name, err)
+		}
+		line, _ := cr.FieldPos(0)
+		records = append(records, rec)
+		lines = append(lines, line)
+	}
+	if len(records) == 0 {
+		return nil, fmt.Errorf("%s: no records", name)
+	}
+	width := len(records[0])
+	if width < 2 {
+		return nil, fmt.Errorf("%s:%d: need a label column and at least one feature column, found %d column(s)", name, lines[0], width)
+	}
+	first := records[0]
+	if len(first) > 0 {
+		first[0] = strings.TrimPrefix(first[0], "\uFEFF")
+	}
+	col := -1 // label column, 0-based
+	header := false
+	switch set.Header {
+	case "yes":
+		header = true
+	case "no", "", "auto":
+	default:
+		return nil, fmt.Errorf("trace: header setting %q: want auto, yes or no", set.Header)
+	}
+	if set.Label != "" && set.Header != "no" {
+		for j, h := range first {
+			if strings.TrimSpace(h) == set.Label {
+				col, header = j, true
+			}
+		}
+	}
+	if col < 0 {
+		switch {
+		case set.Label == "":
+			col = width - 1
+		default:
+			k, err := strconv.Atoi(set.Label)
+			if err != nil {
+				return nil, fmt.Errorf("%s: no label column named %q (header: %s)", name, set.Label, strings.Join(first, ","))
+			}
+			if k < 1 || k > width {
+				return nil, fmt.Errorf("%s: label column %d out of range 1..%d", name, k, width)
+			}
+			col = k - 1
+		}
+		if set.Header == "" || set.Header == "auto" {
+			for j, c := range first {
+				if j == col {
+					continue
+				}
+				if _, err := strconv.ParseFloat(strings.TrimSpace(c), 64); err != nil {
+					header = true
+					break
+				}
+			}
+		}
+	}
+	if header {
+		records, lines = records[1:], lines[1:]
+	}
+	if len(records) == 0 {
+		return nil, fmt.Errorf("%s: no data rows", name)
+	}
+	x := mat.NewDense(len(records), width-1, nil)
+	labels := make([]string, len(records))
+	for i, rec := range records {
+		if len(rec) != width {
+			return nil, fmt.Errorf("%s:%d: row has %d cells, want %d", name, lines[i], len(rec), width)
+		}
+		k := 0
+		for j, c := range rec {
+			c = strings.TrimSpace(c)
+			if j == col {
+				if c == "" {
+					return nil, fmt.Errorf("%s:%d: column %d: empty label", name, lines[i], j+1)
+				}
+				labels[i] = c
+				continue
+			}
+			v, err := strconv.ParseFloat(c, 64)
+			if err != nil {
+				return nil, fmt.Errorf("%s:%d: column %d: %q is not a number", name, lines[i], j+1, c)
+			}
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return nil, fmt.Errorf("%s:%d: column %d: %q is not finite", name, lines[i], j+1, c)
+			}
+			x.Set(i, k, v)
+			k++
+		}
+	}
+	s, err := NewSample(x, labels)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", name, err)
+	}
+	s.Source = name
+	return s, nil
+}
+
+// ReadNPY reads a sample from two NPY streams: features, a 2-D array of
+// floats or integers (n × width), and labels, a 1-D integer array of
+// length n. The names are used in errors.
+func ReadNPY(features io.Reader, featuresName string, labels io.Reader, labelsName string) (*Sample, error) {
+	var x mat.Dense
+	if err := npyio.Read(features, &x); err != nil {
+		return nil, fmt.Errorf("%s: cannot read NPY features: %v", featuresName, err)
+	}
+	lr, err := npyio.NewReader(labels)
+	if err != nil {
+		return nil, fmt.Errorf("%s: cannot read NPY labels: %v", labelsName, err)
+	}
+	if len(lr.Header.Descr.Shape) != 1 {
+		return nil, fmt.Errorf("%s: labels have shape %v, want one dimension", labelsName, lr.Header.Descr.Shape)
+	}
+	ints, err := readIntLabels(lr)
+	if err != nil {
+		return nil, fmt.Errorf("%s: cannot read NPY labels (want an integer array): %v", labelsName, err)
+	}
+	s, err := NewSampleInts(&x, ints)
+	if err != nil {
+		return nil, fmt.Errorf("%s, %s: %w", featuresName, labelsName, err)
+	}
+	s.Source = featuresName
+	return s, nil
+}
+
+// readIntLabels reads a 1-D integer array of any integer dtype.
+func readIntLabels(r *npyio.Reader) ([]int, error) {
+	t := npyio.TypeFrom(r.Header.Descr.Type)
+	if t == nil {
+		return nil, fmt.Errorf("unsupported dtype %q", r.Header.Descr.Type)
+	}
+	var out []int
+	switch t.Kind().String() {
+	case "int64":
+		var v []int64
+		if err := r.Read(&v); err != nil {
+			return nil, err
+		}
+		for _, x := range v {
+			out = append(out, int(x))
+		}
+	case "int32":
+		var v []int32
+		if err := r.Read(&v); err != nil {
+			return nil, err
+		}
+		for _, x := range v {
+			out = append(out, int(x))
+		}
+	case "int16":
+		var v []int16
+		if err := r.Read(&v); err != nil {
+			return nil, err
+		}
+		for _, x := range v {
+			out = append(out, int(x))
+		}
+	case "int8":
+		var v []int8
+		if err := r.Read(&v); err != nil {
+			return nil, err
+		}
+		for _, x := range v {
+			out = append(out, int(x))
+		}
+	case "uint8":
+		var v []uint8
+		if err := r.Read(&v); err != nil {
+			return nil, err
+		}
+		for _, x := range v {
+			out = append(out, int(x))
+		}
+	default:
+		return nil, fmt.Errorf("dtype %q is not an integer type", r.Header.Descr.Type)
+	}
+	return out, nil
+}

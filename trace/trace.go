@@ -1,0 +1,362 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package trace
+
+import (
+	"encoding/json"
+	"fmt"
+	"math"
+	"time"
+
+	"crease.dev/crease/homology"
+)
+
+// SchemaVersion is the version of the JSON layout written by WriteJSON.
+// It changes only when a field is renamed or removed or changes meaning.
+const SchemaVersion = 1
+
+// InputKind is the Kind of stage 0, the sample itself.
+const InputKind = "input"
+
+// Trace is the record of one run of a model over a labeled sample.
+//
+// A Trace is immutable once returned by Run or ReadJSON and is safe for
+// concurrent reads; callers must not modify its fields.
+type Trace struct {
+	// Schema is SchemaVersion at the time of writing.
+	Schema int `json:"schema"`
+	// Tool names the program and version that made the trace.
+	Tool string `json:"tool"`
+	// Model identifies the model file; zero when Run was given stages
+	// that did not come from a file.
+	Model ModelInfo `json:"model"`
+	// Settings are the resolved settings of the run (no zero-value
+	// defaults left).
+	Settings Settings `json:"settings"`
+	// Sample describes the sample after subsampling.
+	Sample SampleInfo `json:"sample"`
+	// Stages holds the input (index 0) and then every model stage, in
+	// order; Stages[i].Index == i.
+	Stages []Stage `json:"stages"`
+	// Timing holds wall times of the parts of the run; nil unless
+	// Settings.Timing was set.
+	Timing *Timing `json:"timing,omitempty"`
+}
+
+// ModelInfo identifies a model file.
+type ModelInfo struct {
+	// File is the file name as given to RunFile.
+	File string `json:"file,omitempty"`
+	// SHA256 is the hex SHA-256 of the file's bytes.
+	SHA256 string `json:"sha256,omitempty"`
+}
+
+// SampleInfo describes the sample a trace was computed on.
+type SampleInfo struct {
+	// Source names where the sample came from (a file name, or empty).
+	Source string `json:"source,omitempty"`
+	// Rows is the number of rows before subsampling.
+	Rows int `json:"rows"`
+	// Width is the number of features.
+	Width int `json:"width"`
+	// Classes holds the class names; class index c is Classes[c].
+	Classes []string `json:"classes"`
+	// Indices holds, for each row used, its 0-based row number in the
+	// source (data rows only, headers and comments not counted), in
+	// increasing order.
+	Indices []int `json:"indices"`
+	// Labels holds the class index of each row used, parallel to Indices.
+	Labels []int `json:"labels"`
+}
+
+// Stage is the record of one stage: its identity, the topology of the
+// whole sample and of each class, and its measures.
+type Stage struct {
+	// Index is the stage's position in Trace.Stages; 0 is the input.
+	Index int `json:"index"`
+	// Kind is "input" for stage 0, else the onnxload kind name
+	// ("affine", "relu", "softmax", ...).
+	Kind string `json:"kind"`
+	// In is the input width of the stage (0 for the input stage).
+	In int `json:"in"`
+	// Width is the stage's output width (the features for the input).
+	Width int `json:"width"`
+	// Nodes are the origin ONNX node names, in graph order.
+	Nodes []string `json:"nodes,omitempty"`
+	// Whole is the whole sample at this stage.
+	Whole Group `json:"whole"`
+	// Classes holds one Group per class, in class index order.
+	Classes []Group `json:"classes"`
+	// Glued counts the pairs of sample points that this stage maps to
+	// the same point; nil for the input stage.
+	Glued *Glued `json:"glued,omitempty"`
+	// Measures holds the stage's scalar measures by name (collapse and
+	// class-overlap measures, see MeasureNames). Undefined measures are
+	// absent rather than NaN.
+	Measures map[string]float64 `json:"measures,omitempty"`
+}
+
+// Group is the topology of one point cloud at one stage: the whole
+// sample or one class.
+type Group struct {
+	// Label is the class name; empty for the whole sample.
+	Label string `json:"label,omitempty"`
+	// Count is the number of points.
+	Count int `json:"count"`
+	// Betti[d] is the Betti number in dimension d read by the scale rule.
+	Betti []int `json:"betti"`
+	// Scale is the ε at which Betti was read (for ScalePersistence, the
+	// minimum persistence counted), in units of the metric.
+	Scale float64 `json:"scale"`
+	// Diameter is the largest Euclidean distance between two points.
+	Diameter float64 `json:"diameter"`
+	// Threshold is the largest edge length admitted when computing Bars.
+	Threshold float64 `json:"threshold"`
+	// Truncated is true when Threshold is below the enclosing radius, so
+	// bars alive at Threshold have Death = +Inf.
+	Truncated bool `json:"truncated"`
+	// Bars[d] are the bars of dimension d, in homology's canonical order.
+	Bars [][]Bar `json:"bars"`
+}
+
+// Bar is one persistence interval [Birth, Death). Death is +Inf for an
+// essential class or one alive at a truncation threshold; in JSON a bar
+// is the array [birth, death] with null for an infinite death.
+type Bar struct {
+	Birth, Death float64
+}
+
+// MarshalJSON encodes b as [birth, death], with null for +Inf.
+func (b Bar) MarshalJSON() ([]byte, error) {
+	if math.IsInf(b.Death, 1) {
+		return json.Marshal([]any{b.Birth, nil})
+	}
+	return json.Marshal([2]float64{b.Birth, b.Death})
+}
+
+// UnmarshalJSON decodes [birth, death] with null meaning +Inf.
+func (b *Bar) UnmarshalJSON(data []byte) error {
+	var v []*float64
+	if err := json.Unmarshal(data, &v); err != nil {
+		return fmt.Errorf("trace: bar: %w", err)
+	}
+	if len(v) != 2 || v[0] == nil {
+		return fmt.Errorf("trace: bar %s: want [birth, death]", data)
+	}
+	b.Birth = *v[0]
+	b.Death = math.Inf(1)
+	if v[1] != nil {
+		b.Death = *v[1]
+	}
+	return nil
+}
+
+// Persistence returns Death − Birth.
+func (b Bar) Persistence() float64 { return b.Death - b.Birth }
+
+// Glued counts pairs of distinct sample points sent to one point by a
+// stage (relu.Glue on the stage's input and output).
+type Glued struct {
+	// Total is Within + Cross.
+	Total int `json:"total"`
+	// Within counts pairs from the same class.
+	Within int `json:"within"`
+	// Cross counts pairs from different classes.
+	Cross int `json:"cross"`
+}
+
+// Timing holds wall times of a run's parts, summed over workers.
+type Timing struct {
+	// Total is the wall time of Run.
+	Total time.Duration `json:"total"`
+	// Forward is the time of the forward pass.
+	Forward time.Duration `json:"forward"`
+	// Homology, Relu and Overlap sum the time spent in each library over
+	// all stages and groups (CPU-parallel parts can exceed Total).
+	Homology time.Duration `json:"homology"`
+	Relu     time.Duration `json:"relu"`
+	Overlap  time.Duration `json:"overlap"`
+	// Stages[i] is the homology time of stage i summed over its groups.
+	Stages []time.Duration `json:"stages"`
+}
+
+// HomologyShare returns the fraction of worker time spent in homology.
+func (t *Timing) HomologyShare() float64 {
+	s := t.Homology + t.Relu + t.Overlap
+	if s == 0 {
+		return 0
+	}
+	return float64(t.Homology) / float64(s)
+}
+
+// ScaleRule selects how Betti numbers are read from barcodes.
+type ScaleRule int
+
+const (
+	// ScaleRelative reads Betti numbers at ε = Scale × diameter. It is
+	// the zero value.
+	ScaleRelative ScaleRule = iota
+	// ScalePersistence counts bars with persistence ≥ Persistence ×
+	// diameter (bars alive at the threshold count).
+	ScalePersistence
+	// ScaleHops uses the k-NN hop-count metric and reads at ε = Hops.
+	ScaleHops
+)
+
+// String returns "relative", "persistence" or "hops".
+func (r ScaleRule) String() string {
+	switch r {
+	case ScaleRelative:
+		return "relative"
+	case ScalePersistence:
+		return "persistence"
+	case ScaleHops:
+		return "hops"
+	}
+	return fmt.Sprintf("ScaleRule(%d)", int(r))
+}
+
+// ParseScaleRule parses the String form of a ScaleRule.
+func ParseScaleRule(s string) (ScaleRule, error) {
+	for r := ScaleRelative; r <= ScaleHops; r++ {
+		if r.String() == s {
+			return r, nil
+		}
+	}
+	return 0, fmt.Errorf("trace: unknown scale rule %q (want relative, persistence or hops)", s)
+}
+
+// MarshalText implements encoding.TextMarshaler.
+func (r ScaleRule) MarshalText() ([]byte, error) { return []byte(r.String()), nil }
+
+// UnmarshalText implements encoding.TextUnmarshaler.
+func (r *ScaleRule) UnmarshalText(b []byte) error {
+	v, err := ParseScaleRule(string(b))
+	*r = v
+	return err
+}
+
+// Defaults used for zero Settings fields.
+const (
+	// DefaultCap is the per-class cap: 120 points per class keeps a
+	// trace of a small MLP within seconds on 2 cores (measured on the
+	// demo model, see BenchmarkRun).
+	DefaultCap = 120
+	// DefaultScale is the relative scale (a value from common practice).
+	DefaultScale = 0.1
+	// DefaultPersistence is the relative persistence threshold (common
+	// practice).
+	DefaultPersistence = 0.1
+	// DefaultK is the neighbour count of ScaleHops.
+	DefaultK = 8
+	// DefaultHops is the hop-count scale of ScaleHops.
+	DefaultHops = 2
+)
+
+// Settings control Run. A nil *Settings means DefaultSettings(). Zero
+// fields other than MaxDim and Seed mean the documented defaults; the
+// Trace records the resolved values.
+type Settings struct {
+	// MaxDim is the highest homology dimension, 0..3. Zero computes H0
+	// only; DefaultSettings gives 1.
+	MaxDim int `json:"maxdim"`
+	// Rule is the scale rule; the zero value is ScaleRelative.
+	Rule ScaleRule `json:"rule"`
+	// Scale is the relative scale of ScaleRelative; zero means
+	// DefaultScale.
+	Scale float64 `json:"scale"`
+	// Persistence is the relative persistence of ScalePersistence; zero
+	// means DefaultPersistence.
+	Persistence float64 `json:"persistence"`
+	// MaxThreshold, if positive, caps the barcode threshold of
+	// ScalePersistence at MaxThreshold × diameter; zero means the
+	// enclosing radius.
+	MaxThreshold float64 `json:"max_threshold,omitempty"`
+	// K is the neighbour count of ScaleHops; zero means DefaultK
+	// (reduced to count−1 for small groups).
+	K int `json:"k"`
+	// Hops is the hop-count scale of ScaleHops; zero means DefaultHops.
+	Hops int `json:"hops"`
+	// Cap is the per-class cap: Run first keeps at most Cap rows of each
+	// class, chosen by Sample.Cap with Seed. Zero means DefaultCap,
+	// negative means no cap.
+	Cap int `json:"cap"`
+	// Seed seeds the subsampling and every randomised measure.
+	Seed uint64 `json:"seed"`
+	// Whole computes the whole sample's homology as well as each
+	// class's; DefaultSettings sets it.
+	Whole bool `json:"whole"`
+	// Workers bounds the parallel tasks; zero means GOMAXPROCS. Not
+	// recorded in the trace (it does not change the result).
+	Workers int `json:"-"`
+	// Timing records wall times in Trace.Timing.
+	Timing bool `json:"-"`
+	// Progress, if not nil, is called after each finished task, from
+	// one goroutine at a time.
+	Progress func(Progress) `json:"-"`
+}
+
+// DefaultSettings returns the settings used for a nil *Settings: H0 and
+// H1, relative scale 0.1, per-class cap DefaultCap, whole sample on.
+func DefaultSettings() *Settings {
+	return &Settings{MaxDim: 1, Whole: true}
+}
+
+// Progress reports how far a run has got.
+type Progress struct {
+	// Done and Total count tasks (one per stage and group, plus one per
+	// stage for the collapse and overlap measures).
+	Done, Total int
+	// Stage is the stage of the task just finished.
+	Stage int
+	// Part names the task: "whole", a class name, or "measures".
+	Part string
+}
+
+// resolve fills defaults and checks ranges.
+func (s Settings) resolve() (Settings, error) {
+	if s.MaxDim < 0 || s.MaxDim > 3 {
+		return s, fmt.Errorf("trace: maxdim %d out of range 0..3", s.MaxDim)
+	}
+	if s.Scale == 0 {
+		s.Scale = DefaultScale
+	}
+	if s.Persistence == 0 {
+		s.Persistence = DefaultPersistence
+	}
+	if s.K == 0 {
+		s.K = DefaultK
+	}
+	if s.Hops == 0 {
+		s.Hops = DefaultHops
+	}
+	if s.Cap == 0 {
+		s.Cap = DefaultCap
+	}
+	switch {
+	case s.Rule < ScaleRelative || s.Rule > ScaleHops:
+		return s, fmt.Errorf("trace: unknown scale rule %d", int(s.Rule))
+	case !(s.Scale > 0) || math.IsInf(s.Scale, 0):
+		return s, fmt.Errorf("trace: scale %v must be positive", s.Scale)
+	case !(s.Persistence > 0) || math.IsInf(s.Persistence, 0):
+		return s, fmt.Errorf("trace: persistence %v must be positive", s.Persistence)
+	case s.MaxThreshold < 0 || math.IsNaN(s.MaxThreshold):
+		return s, fmt.Errorf("trace: max threshold %v must not be negative", s.MaxThreshold)
+	case s.K < 1:
+		return s, fmt.Errorf("trace: k %d must be positive", s.K)
+	case s.Hops < 1:
+		return s, fmt.Errorf("trace: hops %d must be positive", s.Hops)
+	}
+	return s, nil
+}
+
+// homologyBars converts bars to homology's type.
+func homologyBars(b []Bar) []homology.Bar {
+	out := make([]homology.Bar, len(b))
+	for i, x := range b {
+		out[i] = homology.Bar{Birth: x.Birth, Death: x.Death}
+	}
+	return out
+}
