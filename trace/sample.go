@@ -11,6 +11,7 @@ import (
 	"io"
 	"math"
 	"math/rand/v2"
+	"reflect"
 	"slices"
 	"sort"
 	"strconv"
@@ -337,50 +338,34 @@ func readIntLabels(r *npyio.Reader) ([]int, error) {
 	if t == nil {
 		return nil, fmt.Errorf("unsupported dtype %q", r.Header.Descr.Type)
 	}
-	var out []int
-	switch t.Kind().String() {
-	case "int64":
-		var v []int64
-		if err := r.Read(&v); err != nil {
-			return nil, err
-		}
-		for _, x := range v {
-			out = append(out, int(x))
-		}
-	case "int32":
-		var v []int32
-		if err := r.Read(&v); err != nil {
-			return nil, err
-		}
-		for _, x := range v {
-			out = append(out, int(x))
-		}
-	case "int16":
-		var v []int16
-		if err := r.Read(&v); err != nil {
-			return nil, err
-		}
-		for _, x := range v {
-			out = append(out, int(x))
-		}
-	case "int8":
-		var v []int8
-		if err := r.Read(&v); err != nil {
-			return nil, err
-		}
-		for _, x := range v {
-			out = append(out, int(x))
-		}
-	case "uint8":
-		var v []uint8
-		if err := r.Read(&v); err != nil {
-			return nil, err
-		}
-		for _, x := range v {
-			out = append(out, int(x))
-		}
-	default:
-		return nil, fmt.Errorf("dtype %q is not an integer type", r.Header.Descr.Type)
+	switch t.Kind() {
+	case reflect.Int64:
+		return readInts[int64](r)
+	case reflect.Int32:
+		return readInts[int32](r)
+	case reflect.Int16:
+		return readInts[int16](r)
+	case reflect.Int8:
+		return readInts[int8](r)
+	case reflect.Uint8:
+		return readInts[uint8](r)
+	case reflect.Uint16:
+		return readInts[uint16](r)
+	case reflect.Uint32:
+		return readInts[uint32](r)
+	}
+	return nil, fmt.Errorf("dtype %q is not an integer type", r.Header.Descr.Type)
+}
+
+// readInts reads a slice of T and converts it to int.
+func readInts[T int64 | int32 | int16 | int8 | uint8 | uint16 | uint32](r *npyio.Reader) ([]int, error) {
+	var v []T
+	if err := r.Read(&v); err != nil {
+		return nil, err
+	}
+	out := make([]int, len(v))
+	for i, x := range v {
+		out[i] = int(x)
 	}
 	return out, nil
 }

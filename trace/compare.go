@@ -1,0 +1,160 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package trace
+
+import (
+	"fmt"
+	"math"
+	"slices"
+	"sort"
+
+	"crease.dev/crease/homology"
+)
+
+// CompareSettings control Compare. A nil *CompareSettings means the
+// zero value: any change counts as divergence.
+type CompareSettings struct {
+	// Tol is the largest bottleneck distance or absolute change of a
+	// scalar measure that does not count as divergence.
+	Tol float64
+	// BettiTol is the largest absolute change of a Betti number that
+	// does not count as divergence.
+	BettiTol int
+}
+
+// Comparison is the result of Compare. It is immutable and safe for
+// concurrent reads.
+type Comparison struct {
+	// Settings are the settings used.
+	Settings CompareSettings
+	// Stages holds one entry per stage present in both traces.
+	Stages []StageComparison
+	// Diverge is the first stage that diverges beyond the tolerances,
+	// or −1.
+	Diverge int
+	// Reason says what diverged first ("" when Diverge is −1).
+	Reason string
+}
+
+// StageComparison compares one stage of two traces.
+type StageComparison struct {
+	Index int
+	// KindA and KindB are the stage kinds in each trace.
+	KindA, KindB string
+	// Whole compares the whole sample; Classes compares each class
+	// present in both traces, by label, in A's order.
+	Whole   GroupComparison
+	Classes []GroupComparison
+	// Measures holds B − A for every stage measure present in both
+	// (including glued.* counts).
+	Measures map[string]float64
+	// Max is the largest bottleneck distance or measure change here.
+	Max float64
+}
+
+// GroupComparison compares one group of two traces.
+type GroupComparison struct {
+	Label string
+	// Bottleneck[d] is the bottleneck distance between the dimension-d
+	// barcodes (+Inf when the numbers of infinite bars differ).
+	Bottleneck []float64
+	// Betti[d] is B's Betti number minus A's.
+	Betti []int
+}
+
+// Compare compares traces a and b stage by stage. Traces of different
+// lengths are compared over the common stages. It returns an error when
+// the traces share no class.
+func Compare(a, b *Trace, set *CompareSettings) (*Comparison, error) {
+	if set == nil {
+		set = &CompareSettings{}
+	}
+	common := 0
+	for _, c := range a.Sample.Classes {
+		if b.Class(c) >= 0 {
+			common++
+		}
+	}
+	if common == 0 && len(a.Sample.Classes) > 0 {
+		return nil, fmt.Errorf("trace: the traces share no class")
+	}
+	out := &Comparison{Settings: *set, Diverge: -1}
+	n := min(len(a.Stages), len(b.Stages))
+	for i := range n {
+		sa, sb := &a.Stages[i], &b.Stages[i]
+		sc := StageComparison{Index: i, KindA: sa.Kind, KindB: sb.Kind, Measures: map[string]float64{}}
+		reason := ""
+		note := func(r string) {
+			if reason == "" {
+				reason = r
+			}
+		}
+		if sa.Kind != sb.Kind {
+			note(fmt.Sprintf("kind %s vs %s", sa.Kind, sb.Kind))
+		}
+		cmpGroup := func(ga, gb *Group, name string) GroupComparison {
+			gc := GroupComparison{Label: ga.Label}
+			for d := range min(len(ga.Bars), len(gb.Bars)) {
+				bn := homology.Bottleneck(homologyBars(ga.Bars[d]), homologyBars(gb.Bars[d]))
+				gc.Bottleneck = append(gc.Bottleneck, bn)
+				sc.Max = max(sc.Max, bn)
+				if bn > set.Tol {
+					note(fmt.Sprintf("%s: bottleneck distance %.4g in dimension %d", name, bn, d))
+				}
+			}
+			for d := range min(len(ga.Betti), len(gb.Betti)) {
+				db := gb.Betti[d] - ga.Betti[d]
+				gc.Betti = append(gc.Betti, db)
+				if abs(db) > set.BettiTol {
+					note(fmt.Sprintf("%s: β%d %d → %d", name, d, ga.Betti[d], gb.Betti[d]))
+				}
+			}
+			return gc
+		}
+		sc.Whole = cmpGroup(&sa.Whole, &sb.Whole, "whole sample")
+		for c := range sa.Classes {
+			gb := sb.Group(sa.Classes[c].Label)
+			if gb == nil {
+				continue
+			}
+			sc.Classes = append(sc.Classes, cmpGroup(&sa.Classes[c], gb, "class "+sa.Classes[c].Label))
+		}
+		var names []string
+		for k := range sa.Measures {
+			names = append(names, k)
+		}
+		names = append(names, "glued.total", "glued.within", "glued.cross")
+		sort.Strings(names)
+		names = slices.Compact(names)
+		for _, k := range names {
+			va, oka := sa.Value("", k)
+			vb, okb := sb.Value("", k)
+			if !oka || !okb {
+				continue
+			}
+			d := vb - va
+			sc.Measures[k] = d
+			sc.Max = max(sc.Max, math.Abs(d))
+			if math.Abs(d) > set.Tol {
+				note(fmt.Sprintf("%s %.4g → %.4g", k, va, vb))
+			}
+		}
+		if reason != "" && out.Diverge < 0 {
+			out.Diverge, out.Reason = i, reason
+		}
+		out.Stages = append(out.Stages, sc)
+	}
+	if len(a.Stages) != len(b.Stages) && out.Diverge < 0 {
+		out.Diverge, out.Reason = n, fmt.Sprintf("the traces have %d and %d stages", len(a.Stages), len(b.Stages))
+	}
+	return out, nil
+}
+
+func abs(x int) int {
+	if x < 0 {
+		return -x
+	}
+	return x
+}

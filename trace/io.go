@@ -1,0 +1,149 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package trace
+
+import (
+	"bufio"
+	"encoding/csv"
+	"encoding/json"
+	"fmt"
+	"io"
+	"strconv"
+	"strings"
+	"text/tabwriter"
+)
+
+// WriteJSON writes t as indented JSON. The output depends only on t, so
+// equal traces give byte-identical output.
+func (t *Trace) WriteJSON(w io.Writer) error {
+	b, err := json.MarshalIndent(t, "", " ")
+	if err != nil {
+		return fmt.Errorf("trace: %w", err)
+	}
+	b = append(b, '\n')
+	_, err = w.Write(b)
+	return err
+}
+
+// ReadJSON reads a trace written by WriteJSON. It rejects an unknown
+// schema version, unknown fields and a stage list that breaks the
+// layout (input first, indices in order, classes matching the sample).
+func ReadJSON(r io.Reader) (*Trace, error) {
+	dec := json.NewDecoder(bufio.NewReader(r))
+	dec.DisallowUnknownFields()
+	var t Trace
+	if err := dec.Decode(&t); err != nil {
+		return nil, fmt.Errorf("trace: %w", err)
+	}
+	if t.Schema != SchemaVersion {
+		return nil, fmt.Errorf("trace: schema version %d, this build reads %d", t.Schema, SchemaVersion)
+	}
+	for i := range t.Stages {
+		s := &t.Stages[i]
+		switch {
+		case s.Index != i:
+			return nil, fmt.Errorf("trace: stage %d has index %d", i, s.Index)
+		case (i == 0) != (s.Kind == InputKind):
+			return nil, fmt.Errorf("trace: stage %d has kind %q; only stage 0 is %q", i, s.Kind, InputKind)
+		case len(s.Classes) != len(t.Sample.Classes):
+			return nil, fmt.Errorf("trace: stage %d has %d classes, the sample %d", i, len(s.Classes), len(t.Sample.Classes))
+		}
+		for c := range s.Classes {
+			if s.Classes[c].Label != t.Sample.Classes[c] {
+				return nil, fmt.Errorf("trace: stage %d class %d is %q, want %q", i, c, s.Classes[c].Label, t.Sample.Classes[c])
+			}
+		}
+	}
+	return &t, nil
+}
+
+// WriteCSV writes t in long form with the header
+// stage,kind,class,measure,value: one row per stage, group and measure
+// (see Stage.Value for names). The class is empty for the whole sample
+// and for stage measures.
+func (t *Trace) WriteCSV(w io.Writer) error {
+	cw := csv.NewWriter(w)
+	if err := cw.Write([]string{"stage", "kind", "class", "measure", "value"}); err != nil {
+		return err
+	}
+	names := t.MeasureNames()
+	for i := range t.Stages {
+		s := &t.Stages[i]
+		classes := append([]string{""}, t.Sample.Classes...)
+		for _, c := range classes {
+			for _, m := range names {
+				if c != "" && isStageMeasure(m) {
+					continue
+				}
+				v, ok := s.Value(c, m)
+				if !ok {
+					continue
+				}
+				rec := []string{strconv.Itoa(s.Index), s.Kind, c, m, strconv.FormatFloat(v, 'g', -1, 64)}
+				if err := cw.Write(rec); err != nil {
+					return err
+				}
+			}
+		}
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+// isStageMeasure reports whether the measure belongs to the stage, not
+// a group.
+func isStageMeasure(m string) bool {
+	switch {
+	case m == "count" || m == "diameter" || m == "scale" || m == "threshold":
+		return false
+	case strings.HasPrefix(m, "betti.") || strings.HasPrefix(m, "bars."):
+		return false
+	}
+	return true
+}
+
+// WriteTable writes a readable per-stage table: stage, kind, width, the
+// whole sample's Betti numbers, each class's Betti numbers and the
+// glued pair counts.
+func (t *Trace) WriteTable(w io.Writer) error {
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprint(tw, "stage\tkind\twidth\twhole")
+	for _, c := range t.Sample.Classes {
+		fmt.Fprintf(tw, "\t%s", c)
+	}
+	fmt.Fprint(tw, "\tglued within\tglued cross\n")
+	for i := range t.Stages {
+		s := &t.Stages[i]
+		fmt.Fprintf(tw, "%d\t%s\t%d\t%s", s.Index, s.Kind, s.Width, bettiString(s.Whole.Betti))
+		for c := range s.Classes {
+			fmt.Fprintf(tw, "\t%s", bettiString(s.Classes[c].Betti))
+		}
+		if s.Glued != nil {
+			fmt.Fprintf(tw, "\t%d\t%d\n", s.Glued.Within, s.Glued.Cross)
+		} else {
+			fmt.Fprint(tw, "\t-\t-\n")
+		}
+	}
+	return tw.Flush()
+}
+
+// bettiString formats Betti numbers as (b0, b1, ...), "-" when absent.
+func bettiString(b []int) string {
+	if len(b) == 0 {
+		return "-"
+	}
+	parts := make([]string, len(b))
+	for i, v := range b {
+		parts[i] = strconv.Itoa(v)
+	}
+	return "(" + strings.Join(parts, ",") + ")"
+}
+
+// String returns the per-stage table of WriteTable.
+func (t *Trace) String() string {
+	var b strings.Builder
+	t.WriteTable(&b)
+	return b.String()
+}
