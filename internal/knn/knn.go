@@ -1,0 +1,352 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package knn
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"runtime"
+	"sort"
+	"sync"
+	"sync/atomic"
+
+	"gonum.org/v1/gonum/blas"
+	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/mat"
+)
+
+// Block sizes of the distance computation: rowBlock rows of the sample are
+// compared with colBlock columns at a time, so each worker holds a
+// rowBlock×colBlock product (1 MiB).
+const (
+	rowBlock = 128
+	colBlock = 1024
+)
+
+// Graph is a k-nearest-neighbour graph. Row i of Index and Dist lists the
+// K nearest other points of point i, sorted by distance and then by index;
+// Dist holds Euclidean distances. A Graph is not modified after Search
+// returns it and is safe for concurrent reads.
+type Graph struct {
+	K     int
+	Index [][]int
+	Dist  [][]float64
+}
+
+// Error reports bad input. Row and Col are 0-based and are −1 when they
+// do not apply.
+type Error struct {
+	Row, Col int
+	Reason   string
+}
+
+func (e *Error) Error() string {
+	switch {
+	case e.Row >= 0 && e.Col >= 0:
+		return fmt.Sprintf("knn: row %d, column %d: %s", e.Row, e.Col, e.Reason)
+	case e.Row >= 0:
+		return fmt.Sprintf("knn: row %d: %s", e.Row, e.Reason)
+	}
+	return "knn: " + e.Reason
+}
+
+// Cloud is a validated copy of a point set, prepared for repeated
+// neighbour queries. Build it once with [NewCloud] when several queries
+// run on the same points. A Cloud is immutable and safe for concurrent use.
+type Cloud struct {
+	n, d  int
+	raw   []float64 // row-major n×d, the input values
+	cen   blas64.General
+	norm  []float64 // squared norms of the centred rows
+	slack float64   // rounding bound factor: |approx−true| ≤ slack·(normᵢ+normⱼ)
+}
+
+// NewCloud copies the rows of x as points. It returns an [*Error] if x is
+// nil or empty or holds NaN or ±Inf (naming the first such row and column).
+func NewCloud(x mat.Matrix) (*Cloud, error) {
+	if x == nil {
+		return nil, &Error{Row: -1, Col: -1, Reason: "nil matrix"}
+	}
+	n, d := x.Dims()
+	if n == 0 || d == 0 {
+		return nil, &Error{Row: -1, Col: -1, Reason: fmt.Sprintf("empty sample (%d×%d)", n, d)}
+	}
+	c := &Cloud{n: n, d: d, raw: make([]float64, n*d)}
+	if rm, ok := x.(mat.RawMatrixer); ok {
+		r := rm.RawMatrix()
+		for i := 0; i < n; i++ {
+			copy(c.raw[i*d:(i+1)*d], r.Data[i*r.Stride:i*r.Stride+d])
+		}
+	} else {
+		for i := 0; i < n; i++ {
+			for j := 0; j < d; j++ {
+				c.raw[i*d+j] = x.At(i, j)
+			}
+		}
+	}
+	for i, v := range c.raw {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, &Error{Row: i / d, Col: i % d, Reason: fmt.Sprintf("non-finite value %v", v)}
+		}
+	}
+	mean := make([]float64, d)
+	for i := 0; i < n; i++ {
+		for j, v := range c.raw[i*d : (i+1)*d] {
+			mean[j] += v
+		}
+	}
+	for j := range mean {
+		mean[j] /= float64(n)
+	}
+	cen := make([]float64, n*d)
+	c.norm = make([]float64, n)
+	for i := 0; i < n; i++ {
+		var s float64
+		for j := 0; j < d; j++ {
+			v := c.raw[i*d+j] - mean[j]
+			cen[i*d+j] = v
+			s += v * v
+		}
+		c.norm[i] = s
+	}
+	c.cen = blas64.General{Rows: n, Cols: d, Stride: d, Data: cen}
+	// Error of the Gram formula for a d-term dot product and two d-term
+	// norms, plus the rounding of the centring, is below a small multiple
+	// of d·ε·(‖xᵢ‖²+‖xⱼ‖²) (standard forward error bound γ_d of a sum of
+	// products); a factor 4 on top keeps the bound safe.
+	c.slack = 4 * float64(2*d+16) * 0x1p-52
+	return c, nil
+}
+
+// Len returns the number of points.
+func (c *Cloud) Len() int { return c.n }
+
+// Dim returns the number of coordinates of each point.
+func (c *Cloud) Dim() int { return c.d }
+
+// Dist returns the Euclidean distance between points i and j, computed
+// directly from the coordinates as all distances in this package are. It
+// panics if i or j is out of range.
+func (c *Cloud) Dist(i, j int) float64 {
+	a := c.raw[i*c.d : (i+1)*c.d]
+	b := c.raw[j*c.d : (j+1)*c.d]
+	var s float64
+	for k, v := range a {
+		t := v - b[k]
+		s += t * t
+	}
+	return math.Sqrt(s)
+}
+
+// gram writes the products of rows [i0,i1) with rows [j0,j1) of the centred
+// cloud into buf (row-major, stride j1−j0).
+func (c *Cloud) gram(buf []float64, i0, i1, j0, j1 int) blas64.General {
+	a := blas64.General{Rows: i1 - i0, Cols: c.d, Stride: c.d, Data: c.cen.Data[i0*c.d:]}
+	b := blas64.General{Rows: j1 - j0, Cols: c.d, Stride: c.d, Data: c.cen.Data[j0*c.d:]}
+	g := blas64.General{Rows: i1 - i0, Cols: j1 - j0, Stride: j1 - j0, Data: buf[:(i1-i0)*(j1-j0)]}
+	blas64.Gemm(blas.NoTrans, blas.Trans, 1, a, b, 0, g)
+	return g
+}
+
+// parallel runs work(block) for block = 0..nblocks−1 on all cores, stopping
+// at the first error or cancellation.
+func parallel(ctx context.Context, nblocks int, work func(w, block int) error) error {
+	workers := min(runtime.GOMAXPROCS(0), nblocks)
+	var (
+		next    atomic.Int64
+		once    sync.Once
+		firstEr error
+		stop    atomic.Bool
+		wg      sync.WaitGroup
+	)
+	fail := func(err error) {
+		once.Do(func() { firstEr = err })
+		stop.Store(true)
+	}
+	for w := 0; w < workers; w++ {
+		wg.Go(func() {
+			for !stop.Load() {
+				b := int(next.Add(1) - 1)
+				if b >= nblocks {
+					return
+				}
+				if err := ctx.Err(); err != nil {
+					fail(err)
+					return
+				}
+				if err := work(w, b); err != nil {
+					fail(err)
+					return
+				}
+			}
+		})
+	}
+	wg.Wait()
+	if firstEr == nil {
+		firstEr = ctx.Err()
+	}
+	return firstEr
+}
+
+// Search returns the exact k nearest neighbours of every row of x under
+// the Euclidean distance. It returns an error if x is empty or holds NaN
+// or ±Inf, if k < 1 or k ≥ n, or if ctx is cancelled.
+func Search(ctx context.Context, x mat.Matrix, k int) (*Graph, error) {
+	c, err := NewCloud(x)
+	if err != nil {
+		return nil, err
+	}
+	return c.Search(ctx, k)
+}
+
+// cand is a candidate neighbour: approximate squared distance and index.
+type cand struct {
+	v float64
+	j int
+}
+
+// rowState tracks the candidates of one row during a search.
+type rowState struct {
+	top   []float64 // max-heap of the k smallest approximate values
+	cands []cand
+}
+
+func (s *rowState) threshold() float64 { return s.top[0] }
+
+func (s *rowState) push(v float64, k int) {
+	h := s.top
+	if len(h) < k {
+		h = append(h, v)
+		for i := len(h) - 1; i > 0; {
+			p := (i - 1) / 2
+			if h[p] >= h[i] {
+				break
+			}
+			h[p], h[i] = h[i], h[p]
+			i = p
+		}
+		s.top = h
+		return
+	}
+	if v >= h[0] {
+		return
+	}
+	h[0] = v
+	for i := 0; ; {
+		l, r, m := 2*i+1, 2*i+2, i
+		if l < len(h) && h[l] > h[m] {
+			m = l
+		}
+		if r < len(h) && h[r] > h[m] {
+			m = r
+		}
+		if m == i {
+			break
+		}
+		h[m], h[i] = h[i], h[m]
+		i = m
+	}
+}
+
+// Search returns the exact k nearest neighbours of every point, as the
+// package-level [Search] does.
+func (c *Cloud) Search(ctx context.Context, k int) (*Graph, error) {
+	if k < 1 || k >= c.n {
+		return nil, &Error{Row: -1, Col: -1, Reason: fmt.Sprintf("k = %d out of range 1..%d for %d points", k, c.n-1, c.n)}
+	}
+	g := &Graph{K: k, Index: make([][]int, c.n), Dist: make([][]float64, c.n)}
+	idx := make([]int, c.n*k)
+	dst := make([]float64, c.n*k)
+	for i := range g.Index {
+		g.Index[i] = idx[i*k : (i+1)*k : (i+1)*k]
+		g.Dist[i] = dst[i*k : (i+1)*k : (i+1)*k]
+	}
+	maxNorm := 0.0
+	for _, v := range c.norm {
+		maxNorm = max(maxNorm, v)
+	}
+	workers := runtime.GOMAXPROCS(0)
+	bufs := make([][]float64, workers)
+	states := make([][]rowState, workers)
+	nb := (c.n + rowBlock - 1) / rowBlock
+	err := parallel(ctx, nb, func(w, b int) error {
+		if bufs[w] == nil {
+			bufs[w] = make([]float64, rowBlock*colBlock)
+			states[w] = make([]rowState, rowBlock)
+		}
+		i0, i1 := b*rowBlock, min((b+1)*rowBlock, c.n)
+		st := states[w][:i1-i0]
+		for r := range st {
+			st[r].top = st[r].top[:0]
+			st[r].cands = st[r].cands[:0]
+		}
+		for j0 := 0; j0 < c.n; j0 += colBlock {
+			if err := ctx.Err(); err != nil {
+				return err
+			}
+			j1 := min(j0+colBlock, c.n)
+			gm := c.gram(bufs[w], i0, i1, j0, j1)
+			for r := range st {
+				i := i0 + r
+				s := &st[r]
+				// Both the true k-th distance and every candidate's value
+				// are within slk of their approximations.
+				slk := 2 * c.slack * (c.norm[i] + maxNorm)
+				row := gm.Data[r*gm.Stride : r*gm.Stride+(j1-j0)]
+				for jj, dot := range row {
+					j := j0 + jj
+					if j == i {
+						continue
+					}
+					v := c.norm[i] + c.norm[j] - 2*dot
+					if len(s.top) == k && v > s.threshold()+slk {
+						continue
+					}
+					s.push(v, k)
+					s.cands = append(s.cands, cand{v, j})
+				}
+				if len(s.cands) > 4*k+256 {
+					t := s.threshold() + slk
+					keep := s.cands[:0]
+					for _, cd := range s.cands {
+						if cd.v <= t {
+							keep = append(keep, cd)
+						}
+					}
+					s.cands = keep
+				}
+			}
+		}
+		for r := range st {
+			i := i0 + r
+			s := &st[r]
+			slk := 2 * c.slack * (c.norm[i] + maxNorm)
+			t := s.threshold() + slk
+			keep := s.cands[:0]
+			for _, cd := range s.cands {
+				if cd.v <= t {
+					keep = append(keep, cand{c.Dist(i, cd.j), cd.j})
+				}
+			}
+			sort.Slice(keep, func(a, b int) bool {
+				if keep[a].v != keep[b].v {
+					return keep[a].v < keep[b].v
+				}
+				return keep[a].j < keep[b].j
+			})
+			for q := 0; q < k; q++ {
+				g.Index[i][q] = keep[q].j
+				g.Dist[i][q] = keep[q].v
+			}
+			s.cands = keep
+		}
+		return nil
+	})
+	if err != nil {
+		return nil, err
+	}
+	return g, nil
+}

@@ -1,0 +1,223 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package knn
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"sort"
+	"sync"
+	"testing"
+
+	"gonum.org/v1/gonum/mat"
+)
+
+// bruteKNN is the reference: all distances by the direct formula, sorted by
+// (distance, index), self excluded.
+func bruteKNN(x *mat.Dense, k int) ([][]int, [][]float64) {
+	n, _ := x.Dims()
+	idx := make([][]int, n)
+	dst := make([][]float64, n)
+	for i := 0; i < n; i++ {
+		type e struct {
+			d float64
+			j int
+		}
+		var all []e
+		for j := 0; j < n; j++ {
+			if j == i {
+				continue
+			}
+			var s float64
+			for c := 0; c < x.RawMatrix().Cols; c++ {
+				t := x.At(i, c) - x.At(j, c)
+				s += t * t
+			}
+			all = append(all, e{math.Sqrt(s), j})
+		}
+		sort.Slice(all, func(a, b int) bool {
+			if all[a].d != all[b].d {
+				return all[a].d < all[b].d
+			}
+			return all[a].j < all[b].j
+		})
+		for q := 0; q < k; q++ {
+			idx[i] = append(idx[i], all[q].j)
+			dst[i] = append(dst[i], all[q].d)
+		}
+	}
+	return idx, dst
+}
+
+func randCloud(rnd *rand.Rand, n, d int, offset float64, grid bool) *mat.Dense {
+	x := mat.NewDense(n, d, nil)
+	for i := 0; i < n; i++ {
+		for j := 0; j < d; j++ {
+			v := rnd.NormFloat64()
+			if grid {
+				v = float64(rnd.IntN(3))
+			}
+			x.Set(i, j, v+offset)
+		}
+	}
+	return x
+}
+
+func TestSearchAgainstBruteForce(t *testing.T) {
+	t.Parallel()
+	for _, test := range []struct {
+		name   string
+		n, d   int
+		k      int
+		offset float64
+		grid   bool
+		reason string
+	}{
+		{"small", 7, 2, 3, 0, false, "fewer points than one block"},
+		{"allbutone", 9, 3, 8, 0, false, "k = n−1 lists every other point"},
+		{"blocks", 1500, 5, 10, 0, false, "several row and column blocks"},
+		{"offset", 600, 4, 5, 1e6, false, "large common offset stresses cancellation in ‖x‖²+‖y‖²−2x·y"},
+		{"grid", 700, 3, 12, 0, true, "integer grid: many exact ties and duplicates, tie-break by index"},
+		{"line", 300, 1, 2, 0, true, "one dimension with duplicates"},
+	} {
+		t.Run(test.name, func(t *testing.T) {
+			t.Parallel()
+			rnd := rand.New(rand.NewPCG(1, uint64(test.n)))
+			x := randCloud(rnd, test.n, test.d, test.offset, test.grid)
+			g, err := Search(context.Background(), x, test.k)
+			if err != nil {
+				t.Fatal(err)
+			}
+			wi, wd := bruteKNN(x, test.k)
+			for i := range wi {
+				for q := range wi[i] {
+					if g.Index[i][q] != wi[i][q] || g.Dist[i][q] != wd[i][q] {
+						t.Fatalf("%s: row %d rank %d: got (%d, %v), want (%d, %v)", test.reason, i, q, g.Index[i][q], g.Dist[i][q], wi[i][q], wd[i][q])
+					}
+				}
+			}
+		})
+	}
+}
+
+func TestSearchErrors(t *testing.T) {
+	t.Parallel()
+	nan := mat.NewDense(3, 2, []float64{0, 1, 2, math.NaN(), 4, 5})
+	ok := mat.NewDense(3, 2, []float64{0, 1, 2, 3, 4, 5})
+	for _, test := range []struct {
+		name string
+		x    mat.Matrix
+		k    int
+		want string
+	}{
+		{"nil", nil, 1, "knn: nil matrix"},
+		{"nan", nan, 1, "knn: row 1, column 1: non-finite value NaN"},
+		{"inf", mat.NewDense(1, 1, []float64{math.Inf(-1)}), 1, "knn: row 0, column 0: non-finite value -Inf"},
+		{"k0", ok, 0, "knn: k = 0 out of range 1..2 for 3 points"},
+		{"kn", ok, 3, "knn: k = 3 out of range 1..2 for 3 points"},
+		{"single", mat.NewDense(1, 2, nil), 1, "knn: k = 1 out of range 1..0 for 1 points"},
+	} {
+		_, err := Search(context.Background(), test.x, test.k)
+		var e *Error
+		if !errors.As(err, &e) || err.Error() != test.want {
+			t.Errorf("%s: got %v, want %q", test.name, err, test.want)
+		}
+	}
+}
+
+func TestCancel(t *testing.T) {
+	t.Parallel()
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	x := randCloud(rand.New(rand.NewPCG(1, 2)), 500, 3, 0, false)
+	if _, err := Search(ctx, x, 3); !errors.Is(err, context.Canceled) {
+		t.Errorf("Search: got %v, want context.Canceled", err)
+	}
+	if err := Pairs(ctx, x, 1, func([]Pair) error { return nil }); !errors.Is(err, context.Canceled) {
+		t.Errorf("Pairs: got %v, want context.Canceled", err)
+	}
+}
+
+func TestPairsAgainstBruteForce(t *testing.T) {
+	t.Parallel()
+	for _, test := range []struct {
+		name string
+		n, d int
+		r    float64
+		grid bool
+	}{
+		{"zero-radius-duplicates", 400, 2, 0, true},
+		{"grid-unit", 1300, 3, 1, true},
+		{"gauss", 1200, 4, 1.5, false},
+		{"everything", 300, 2, 100, false},
+	} {
+		t.Run(test.name, func(t *testing.T) {
+			t.Parallel()
+			x := randCloud(rand.New(rand.NewPCG(3, uint64(test.n))), test.n, test.d, 0, test.grid)
+			var mu sync.Mutex
+			got := map[[2]int]float64{}
+			err := Pairs(context.Background(), x, test.r, func(b []Pair) error {
+				mu.Lock()
+				defer mu.Unlock()
+				for _, p := range b {
+					k := [2]int{p.I, p.J}
+					if _, dup := got[k]; dup || p.I >= p.J {
+						return fmt.Errorf("pair %v reported twice or out of order", p)
+					}
+					got[k] = p.D
+				}
+				return nil
+			})
+			if err != nil {
+				t.Fatal(err)
+			}
+			c, _ := NewCloud(x)
+			want := 0
+			for i := 0; i < test.n; i++ {
+				for j := i + 1; j < test.n; j++ {
+					d := c.Dist(i, j)
+					if d <= test.r {
+						want++
+						if gd, ok := got[[2]int{i, j}]; !ok || gd != d {
+							t.Fatalf("pair (%d,%d) at %v: got %v, %v", i, j, d, gd, ok)
+						}
+					}
+				}
+			}
+			if len(got) != want {
+				t.Errorf("got %d pairs, want %d", len(got), want)
+			}
+		})
+	}
+}
+
+func TestPairsVisitError(t *testing.T) {
+	t.Parallel()
+	x := randCloud(rand.New(rand.NewPCG(1, 9)), 50, 2, 0, false)
+	stop := errors.New("stop")
+	if err := Pairs(context.Background(), x, 10, func([]Pair) error { return stop }); !errors.Is(err, stop) {
+		t.Errorf("got %v, want the visitor's error", err)
+	}
+	if err := Pairs(context.Background(), x, -1, nil); err == nil || err.Error() != "knn: radius -1 is not a finite non-negative number" {
+		t.Errorf("negative radius: got %v", err)
+	}
+}
+
+func BenchmarkSearch(b *testing.B) {
+	for _, n := range []int{1000, 5000, 20000} {
+		b.Run(fmt.Sprintf("n=%d/d=64/k=10", n), func(b *testing.B) {
+			x := randCloud(rand.New(rand.NewPCG(1, 1)), n, 64, 0, false)
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := Search(context.Background(), x, 10); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
