@@ -85,6 +85,7 @@ func DecodeBytes(data []byte, lim *Limits) (*Model, error) {
 	if err := validate(m); err != nil {
 		return nil, err
 	}
+	m.lim = l
 	return m, nil
 }
 
@@ -678,14 +679,16 @@ func (d *decoder) node(b []byte, index int) (*Node, error) {
 	if n.OpType == "" {
 		return nil, &FormatError{Node: n.Name, Where: where, Reason: "empty op_type"}
 	}
+	seen := make(map[string]bool, len(attrs))
 	for _, p := range attrs {
 		a, err := d.attribute(p, n, where)
 		if err != nil {
 			return nil, err
 		}
-		if n.Attr(a.Name) != nil {
+		if seen[a.Name] {
 			return nil, &FormatError{Node: n.Name, Where: where, Reason: fmt.Sprintf("duplicate attribute %q", a.Name)}
 		}
+		seen[a.Name] = true
 		n.Attributes = append(n.Attributes, a)
 	}
 	return n, nil

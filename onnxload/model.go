@@ -73,6 +73,10 @@ type Model struct {
 	Outputs []ValueInfo
 	// Initializers are the graph's constant tensors, in file order.
 	Initializers []*Tensor
+
+	// lim holds the limits the model was decoded with; Stages applies
+	// MaxElements to the matrices it builds.
+	lim Limits
 }
 
 // Initializer returns the initializer with the given name, or nil.

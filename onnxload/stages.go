@@ -55,6 +55,8 @@ type builder struct {
 	cur *value
 	// pending holds names of pass-through nodes seen before any stage.
 	pending []string
+	// maxElements bounds the size of any weight matrix built.
+	maxElements int64
 	// matmul marks affine stages made by a bias-free MatMul that an
 	// Add may still give a bias.
 	matmul map[int]bool
@@ -76,6 +78,7 @@ func (m *Model) Stages(set *StageSettings) ([]Stage, error) {
 		set = &StageSettings{}
 	}
 	b := &builder{m: m, vals: map[string]*value{}, uses: map[string]int{}, matmul: map[int]bool{}}
+	b.maxElements = m.lim.resolve().MaxElements
 	for _, t := range m.Initializers {
 		b.vals[t.Name] = &value{konst: t}
 	}
@@ -122,7 +125,10 @@ func (m *Model) Stages(set *StageSettings) ([]Stage, error) {
 	}
 	stages := b.stages
 	if set.FuseAffine {
-		stages = fuse(stages)
+		var err error
+		if stages, err = fuse(stages, b.maxElements); err != nil {
+			return nil, err
+		}
 	}
 	return stages, nil
 }
@@ -194,6 +200,15 @@ func (b *builder) setOutput(n *Node, v *value) {
 	if len(n.Outputs) > 0 && n.Outputs[0] != "" {
 		b.vals[n.Outputs[0]] = v
 	}
+}
+
+// checkSize returns a LimitError if a rows×cols weight matrix would
+// exceed MaxElements.
+func (b *builder) checkSize(n *Node, i int, rows, cols int) error {
+	if int64(rows) > b.maxElements/max(int64(cols), 1) {
+		return &LimitError{Limit: "MaxElements", Where: nodeWhere(n, i) + " weight matrix", Value: int64(rows) * int64(cols), Max: b.maxElements}
+	}
+	return nil
 }
 
 // push appends a stage fed by the current data value.
@@ -405,6 +420,9 @@ func (b *builder) node(n *Node, i int) error {
 			b.setOutput(n, data)
 			return nil
 		}
+		if err := b.checkSize(n, i, w, w); err != nil {
+			return err
+		}
 		W := mat.NewDense(w, w, nil)
 		for j := 0; j < w; j++ {
 			W.Set(j, j, 1)
@@ -545,6 +563,9 @@ func (b *builder) batchNorm(n *Node, i int, data *value) error {
 		p[k] = t.Float64
 	}
 	w := data.width()
+	if err := b.checkSize(n, i, w, w); err != nil {
+		return err
+	}
 	W := mat.NewDense(w, w, nil)
 	bias := make([]float64, w)
 	for c := 0; c < ch; c++ {
@@ -685,7 +706,8 @@ func constantValue(n *Node) (*Tensor, error) {
 }
 
 // fuse merges runs of affine and reshape stages holding an affine stage.
-func fuse(in []Stage) []Stage {
+// A fused matrix above maxElements is a LimitError.
+func fuse(in []Stage, maxElements int64) ([]Stage, error) {
 	var out []Stage
 	for k := 0; k < len(in); {
 		if in[k].Kind != Affine && in[k].Kind != Reshape {
@@ -718,6 +740,9 @@ func fuse(in []Stage) []Stage {
 				B = append([]float64(nil), s.B...)
 				continue
 			}
+			if _, c := W.Dims(); int64(s.Out) > maxElements/int64(c) {
+				return nil, &LimitError{Limit: "MaxElements", Where: fmt.Sprintf("fused weight matrix of %q", joinNames(names)), Value: int64(s.Out) * int64(c), Max: maxElements}
+			}
 			var nw mat.Dense
 			nw.Mul(s.W, W)
 			nb := make([]float64, s.Out)
@@ -732,5 +757,5 @@ func fuse(in []Stage) []Stage {
 		out = append(out, Stage{Kind: Affine, In: c, Out: r, W: W, B: B, Nodes: nodes, Name: joinNames(names)})
 		k = e
 	}
-	return out
+	return out, nil
 }
