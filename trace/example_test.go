@@ -1,0 +1,120 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package trace_test
+
+import (
+	"context"
+	"fmt"
+	"log"
+	"math"
+	"os"
+
+	"gonum.org/v1/gonum/mat"
+
+	"crease.dev/crease/onnxload"
+	"crease.dev/crease/trace"
+)
+
+// exampleTrace traces two rings of 24 points through identity, ReLU and
+// a projection onto the first coordinate.
+func exampleTrace() *trace.Trace {
+	const m = 24
+	x := mat.NewDense(2*m, 2, nil)
+	labels := make([]string, 2*m)
+	for k := range m {
+		th := 2 * math.Pi * float64(k) / m
+		x.SetRow(k, []float64{3 + math.Cos(th), 3 + math.Sin(th)})
+		x.SetRow(m+k, []float64{3 + math.Cos(th), 8 + math.Sin(th)})
+		labels[k], labels[m+k] = "low", "high"
+	}
+	sample, err := trace.NewSample(x, labels)
+	if err != nil {
+		log.Fatal(err)
+	}
+	stages := []onnxload.Stage{
+		{Kind: onnxload.Affine, In: 2, Out: 2, Nodes: []string{"fc1"}, W: mat.NewDense(2, 2, []float64{1, 0, 0, 1}), B: []float64{0, 0}},
+		{Kind: onnxload.ReLU, In: 2, Out: 2, Nodes: []string{"relu1"}},
+		{Kind: onnxload.Affine, In: 2, Out: 2, Nodes: []string{"proj"}, W: mat.NewDense(2, 2, []float64{1, 0, 0, 0}), B: []float64{0, 0}},
+	}
+	set := trace.DefaultSettings()
+	set.Scale = 0.2
+	tr, err := trace.Run(context.Background(), stages, sample, set)
+	if err != nil {
+		log.Fatal(err)
+	}
+	return tr
+}
+
+func ExampleRun() {
+	tr := exampleTrace()
+	tr.WriteTable(os.Stdout)
+	// Output:
+	// stage  kind    width  whole  high   low    glued within  glued cross
+	// 0      input   2      (2,2)  (1,1)  (1,1)  -             -
+	// 1      affine  2      (2,2)  (1,1)  (1,1)  0             0
+	// 2      relu    2      (2,2)  (1,1)  (1,1)  0             0
+	// 3      affine  2      (1,0)  (1,0)  (1,0)  22            46
+}
+
+func ExampleTrace_Series() {
+	tr := exampleTrace()
+	b1, err := tr.Series("low", "betti.1")
+	if err != nil {
+		log.Fatal(err)
+	}
+	fmt.Println("β₁ of low:", b1)
+	cross, _ := tr.Series("", "glued.cross")
+	fmt.Println("cross-class glued pairs:", cross)
+	// Output:
+	// β₁ of low: [1 1 1 0]
+	// cross-class glued pairs: [NaN 0 0 46]
+}
+
+func ExampleTrace_First() {
+	tr := exampleTrace()
+	fmt.Println("every class simple from stage", tr.First(0, trace.AllSimple))
+	fmt.Println("first cross-class gluing at stage", tr.First(0, trace.CrossGlued))
+	loopGone := tr.First(0, func(s *trace.Stage) bool { return s.Group("high").Betti[1] == 0 })
+	fmt.Println("high loses its loop at stage", loopGone)
+	// Output:
+	// every class simple from stage 3
+	// first cross-class gluing at stage 3
+	// high loses its loop at stage 3
+}
+
+func ExampleTrace_StageOfNode() {
+	tr := exampleTrace()
+	s := tr.StageOfNode("relu1")
+	fmt.Println(s.Index, s.Kind, s.Group("low").Betti)
+	fmt.Println(len(tr.StagesOfKind("affine")), "affine stages")
+	fmt.Println(tr.Stage(0).Kind, tr.Stage(9) == nil)
+	// Output:
+	// 2 relu [1 1]
+	// 2 affine stages
+	// input true
+}
+
+func ExampleTrace_Summaries() {
+	for _, s := range exampleTrace().Summaries() {
+		fmt.Printf("%d %-6s whole β=%v simple classes=%d cross=%d\n", s.Index, s.Kind, s.Betti, s.Simple, s.Cross)
+	}
+	// Output:
+	// 0 input  whole β=[2 2] simple classes=0 cross=0
+	// 1 affine whole β=[2 2] simple classes=0 cross=0
+	// 2 relu   whole β=[2 2] simple classes=0 cross=0
+	// 3 affine whole β=[1 0] simple classes=2 cross=46
+}
+
+func ExampleCompare() {
+	a := exampleTrace()
+	b := exampleTrace()
+	c, err := trace.Compare(a, b, nil)
+	if err != nil {
+		log.Fatal(err)
+	}
+	fmt.Println("identical traces diverge at", c.Diverge)
+	// Output:
+	// identical traces diverge at -1
+}
