@@ -47,6 +47,11 @@
 // [Forward] applies the stages to an n×d sample in row blocks on all
 // cores and keeps every stage's output.
 //
+// [EvalNode] evaluates a single node of a supported operator on whole
+// tensors, with the full ONNX semantics (any axis, transA, broadcasting).
+// It is a reference for checking operators, such as the ONNX backend test
+// cases, not the path models take.
+//
 // Models, stages and their weights are never changed after they are
 // built and are safe for concurrent reads.
 package onnxload
