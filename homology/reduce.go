@@ -8,7 +8,9 @@ import (
 	"cmp"
 	"fmt"
 	"math"
+	"runtime"
 	"slices"
+	"sync"
 )
 
 // filtrationOrder sorts simplices of one dimension in filtration order:
@@ -82,7 +84,6 @@ func (e *engine) dim0() ([]Bar, []simplex, error) {
 	var bars []Bar
 	var columns []simplex
 	var w [2]int32
-	it := &cofaces{e: e}
 	wantCols := e.maxDim >= 1
 	for k, s := range e.edges {
 		if e.work >= e.nextTick || k&0xffff == 0 {
@@ -106,14 +107,17 @@ func (e *engine) dim0() ([]Bar, []simplex, error) {
 			}
 			continue
 		}
-		if !wantCols {
-			continue
+		if wantCols {
+			columns = append(columns, s)
 		}
-		if e.apparentAsFacet(it, s, 2) {
-			e.stats.Apparent[1]++
-			continue
+	}
+	if wantCols {
+		var err error
+		n0 := len(columns)
+		if columns, err = e.dropApparent(columns, 2); err != nil {
+			return nil, nil, err
 		}
-		columns = append(columns, s)
+		e.stats.Apparent[1] += int64(n0 - len(columns))
 	}
 	for i := range parent {
 		if find(int32(i)) == int32(i) {
@@ -258,7 +262,6 @@ func (e *engine) reduce(columns []simplex, d int, pm *pivotMap) ([]Bar, error) {
 func (e *engine) assemble(prev []simplex, pm *pivotMap, d int, keep bool) (cols, all []simplex, err error) {
 	k := d + 1
 	it := &cofaces{e: e}
-	ait := &cofaces{e: e}
 	e.startPhase("assemble", d, int64(len(prev)))
 	for pi, s := range prev {
 		if e.work >= e.nextTick || pi&0xfff == 0 {
@@ -284,19 +287,63 @@ func (e *engine) assemble(prev []simplex, pm *pivotMap, d int, keep bool) (cols,
 				e.stats.Cleared[d]++
 				continue
 			}
-			if _, ap := e.apparentFacet(ait, c, k); ap {
-				e.stats.Cleared[d]++
-				continue
-			}
-			if d < e.maxDim+1 && e.apparentAsFacet(ait, c, k) {
-				e.stats.Apparent[d]++
-				continue
-			}
 			cols = append(cols, c)
 		}
 	}
+	n0 := len(cols)
+	if cols, err = e.dropApparent(cols, k); err != nil {
+		return nil, nil, err
+	}
+	e.stats.Apparent[d] += int64(n0 - len(cols))
 	sortSimplices(cols, reverseOrder)
 	return cols, all, nil
+}
+
+// dropApparent removes from cands (simplices of k vertices) those in a
+// zero-persistence apparent pair, as facet or (k > 2) as cofacet,
+// keeping the order. A cofacet of such a pair is paired already, so
+// skipping it is clearing.
+// The checks are independent and read-only, so they run on all cores.
+func (e *engine) dropApparent(cands []simplex, k int) ([]simplex, error) {
+	workers := min(runtime.GOMAXPROCS(0), max(1, len(cands)/4096))
+	keep := make([]bool, len(cands))
+	errs := make([]error, workers)
+	var wg sync.WaitGroup
+	chunk := (len(cands) + workers - 1) / workers
+	for g := 0; g < workers; g++ {
+		lo, hi := g*chunk, min((g+1)*chunk, len(cands))
+		wg.Add(1)
+		go func(g, lo, hi int) {
+			defer wg.Done()
+			ec := *e // private work counter; shared read-only tables
+			it := &cofaces{e: &ec}
+			for i := lo; i < hi; i++ {
+				if (i-lo)&0xfff == 0 && e.ctx.Err() != nil {
+					errs[g] = e.ctx.Err()
+					return
+				}
+				if k > 2 {
+					if _, ap := ec.apparentFacet(it, cands[i], k); ap {
+						continue
+					}
+				}
+				keep[i] = !ec.apparentAsFacet(it, cands[i], k)
+			}
+		}(g, lo, hi)
+	}
+	wg.Wait()
+	for _, err := range errs {
+		if err != nil {
+			return nil, err
+		}
+	}
+	out := cands[:0]
+	for i, s := range cands {
+		if keep[i] {
+			out = append(out, s)
+		}
+	}
+	return out, nil
 }
 
 func sortSimplices(s []simplex, order func(a, b simplex) int) {
