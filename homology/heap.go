@@ -102,4 +102,3 @@ func (h *entryHeap) pivot(p int64) (entry, bool) {
 	}
 	return entry{}, false
 }
-
