@@ -75,7 +75,9 @@ func (t *Trace) WriteCSV(w io.Writer) error {
 		for _, c := range classes {
 			for _, m := range names {
 				if c != "" && isStageMeasure(m) {
-					continue
+					if _, own := s.Group(c).Measures[m]; !own {
+						continue
+					}
 				}
 				v, ok := s.Value(c, m)
 				if !ok {

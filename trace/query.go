@@ -82,7 +82,7 @@ func (g *Group) Simple() bool {
 // "betti.D", "bars.D" (number of bars in dimension D), "diameter",
 // "scale" and "threshold"; stage measures, the same for every class,
 // are "glued.total", "glued.within", "glued.cross" and the keys of
-// Stage.Measures. ok is false when the class or measure is unknown or
+// Stage.Measures; a class's own Group.Measures come first. ok is false when the class or measure is unknown or
 // undefined at this stage.
 func (s *Stage) Value(class, measure string) (v float64, ok bool) {
 	g := s.Group(class)
@@ -125,6 +125,9 @@ func (s *Stage) Value(class, measure string) (v float64, ok bool) {
 			return float64(s.Glued.Within), true
 		}
 		return float64(s.Glued.Cross), true
+	}
+	if v, ok = g.Measures[measure]; ok {
+		return v, true
 	}
 	v, ok = s.Measures[measure]
 	return v, ok
@@ -193,6 +196,11 @@ func (t *Trace) MeasureNames() []string {
 		}
 		for k := range s.Measures {
 			set[k] = true
+		}
+		for c := range s.Classes {
+			for k := range s.Classes[c].Measures {
+				set[k] = true
+			}
 		}
 	}
 	out := make([]string, 0, len(set))

@@ -119,6 +119,10 @@ type Group struct {
 	Truncated bool `json:"truncated"`
 	// Bars[d] are the bars of dimension d, in homology's canonical order.
 	Bars [][]Bar `json:"bars"`
+	// Measures holds per-class scalar measures by name (for example
+	// "voronoi.inside" on softmax stages); empty for the whole sample.
+	// Undefined measures are absent rather than NaN.
+	Measures map[string]float64 `json:"measures,omitempty"`
 }
 
 // Bar is one persistence interval [Birth, Death). Death is +Inf for an

@@ -1,0 +1,97 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package tracecheck_test
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"strings"
+	"testing"
+
+	"gonum.org/v1/gonum/mat"
+
+	"crease.dev/crease/onnxload"
+	"crease.dev/crease/trace"
+	"crease.dev/crease/trace/tracecheck"
+)
+
+// fakeTB records Errorf calls instead of failing.
+type fakeTB struct {
+	testing.TB
+	msgs []string
+}
+
+func (f *fakeTB) Helper() {}
+func (f *fakeTB) Errorf(format string, args ...any) {
+	f.msgs = append(f.msgs, fmt.Sprintf(format, args...))
+}
+
+// ringTrace traces two rings of 24 points through identity, ReLU and a
+// projection onto the first coordinate, at relative scale 0.2: each
+// ring has β = (1, 1) (Hatcher, Algebraic Topology, Example 2.23) until
+// the projection makes it a segment, β = (1, 0), and the projection
+// glues the rings together.
+func ringTrace(t *testing.T) *trace.Trace {
+	const m = 24
+	x := mat.NewDense(2*m, 2, nil)
+	labels := make([]string, 2*m)
+	for k := range m {
+		th := 2 * math.Pi * float64(k) / m
+		x.SetRow(k, []float64{3 + math.Cos(th), 3 + math.Sin(th)})
+		x.SetRow(m+k, []float64{3 + math.Cos(th), 8 + math.Sin(th)})
+		labels[k], labels[m+k] = "low", "high"
+	}
+	s, err := trace.NewSample(x, labels)
+	if err != nil {
+		t.Fatal(err)
+	}
+	stages := []onnxload.Stage{
+		{Kind: onnxload.Affine, In: 2, Out: 2, W: mat.NewDense(2, 2, []float64{1, 0, 0, 1}), B: []float64{0, 0}},
+		{Kind: onnxload.ReLU, In: 2, Out: 2},
+		{Kind: onnxload.Affine, In: 2, Out: 2, W: mat.NewDense(2, 2, []float64{1, 0, 0, 0}), B: []float64{0, 0}},
+	}
+	set := trace.DefaultSettings()
+	set.Scale = 0.2
+	tr, err := trace.Run(context.Background(), stages, s, set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return tr
+}
+
+func TestChecks(t *testing.T) {
+	tr := ringTrace(t)
+	for _, tc := range []struct {
+		name  string
+		check func(testing.TB) bool
+		ok    bool
+		want  []string // substrings of the failure message
+	}{
+		{"simple from 3", func(tb testing.TB) bool { return tracecheck.SimpleFrom(tb, tr, "low", 3) }, true, nil},
+		{"simple from 0", func(tb testing.TB) bool { return tracecheck.SimpleFrom(tb, tr, "low", 0) }, false,
+			[]string{`class "low"`, "stage 0 (input)", "β1: 0:input=1 1:affine=1 2:relu=1 3:affine=0"}},
+		{"unknown class", func(tb testing.TB) bool { return tracecheck.SimpleFrom(tb, tr, "mid", 0) }, false, []string{`unknown class "mid"`}},
+		{"no glue before 3", func(tb testing.TB) bool { return tracecheck.NoCrossGlueBefore(tb, tr, 3) }, true, nil},
+		{"no glue before 4", func(tb testing.TB) bool { return tracecheck.NoCrossGlueBefore(tb, tr, 4) }, false,
+			[]string{"stage 3 (affine) glues 46 pairs", "glued.cross: 0:input=- 1:affine=0 2:relu=0 3:affine=46"}},
+		{"no softmax", func(tb testing.TB) bool { return tracecheck.SoftmaxSeparates(tb, tr) }, false, []string{"no softmax stage"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			f := &fakeTB{TB: t}
+			if got := tc.check(f); got != tc.ok {
+				t.Fatalf("check returned %v, want %v; messages %q", got, tc.ok, f.msgs)
+			}
+			if tc.ok != (len(f.msgs) == 0) {
+				t.Fatalf("messages %q with result %v", f.msgs, tc.ok)
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(strings.Join(f.msgs, "\n"), w) {
+					t.Errorf("message %q lacks %q", f.msgs, w)
+				}
+			}
+		})
+	}
+}
