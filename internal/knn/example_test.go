@@ -48,7 +48,9 @@ func ExamplePairs() {
 		fmt.Println(err)
 		return
 	}
-	sort.Slice(pairs, func(a, b int) bool { return pairs[a].I < pairs[b].I || pairs[a].I == pairs[b].I && pairs[a].J < pairs[b].J })
+	sort.Slice(pairs, func(a, b int) bool {
+		return pairs[a].I < pairs[b].I || pairs[a].I == pairs[b].I && pairs[a].J < pairs[b].J
+	})
 	fmt.Println(pairs)
 	// Output:
 	// [{0 1 1} {1 2 2}]
