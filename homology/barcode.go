@@ -56,9 +56,10 @@ type Stats struct {
 	Edges int64
 	// Columns[d] is the number of d-simplices whose coboundary was reduced.
 	Columns []int64
-	// Apparent[d] counts d-simplices skipped as members of zero-persistence
-	// apparent pairs; Emergent[d] counts columns settled by the emergent
-	// pair shortcut; Cleared[d] counts d-simplices skipped by clearing.
+	// Apparent[d] counts d-simplices skipped as members (facet or
+	// cofacet) of zero-persistence apparent pairs; Emergent[d] counts
+	// columns settled by the emergent pair shortcut; Cleared[d] counts
+	// d-simplices skipped because they were pivots of dimension d−1.
 	Apparent, Emergent, Cleared []int64
 }
 

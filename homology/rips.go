@@ -20,15 +20,20 @@ import (
 // (*MemoryError), index overflow (ErrOverflow) and ctx.Err() on
 // cancellation.
 func Rips(ctx context.Context, points mat.Matrix, set *Settings) (*Barcode, error) {
-	r, err := resolve(set)
-	if err != nil {
-		return nil, err
-	}
-	c, err := cloudFromMatrix(points)
+	c, r, err := prepareMatrix(points, set)
 	if err != nil {
 		return nil, err
 	}
 	return ripsCloud(ctx, c, r)
+}
+
+func prepareMatrix(points mat.Matrix, set *Settings) (*cloud, resolved, error) {
+	r, err := resolve(set)
+	if err != nil {
+		return nil, r, err
+	}
+	c, err := cloudFromMatrix(points)
+	return c, r, err
 }
 
 // RipsPoints is Rips for a cloud given as rows; rows of different
@@ -48,11 +53,7 @@ func RipsPoints(ctx context.Context, points [][]float64, set *Settings) (*Barcod
 // PointDistances returns the distances of the cloud under the metric of
 // set (nil means Euclidean), in compressed lower-triangular storage.
 func PointDistances(ctx context.Context, points mat.Matrix, set *Settings) (*LowerTriangular, error) {
-	r, err := resolve(set)
-	if err != nil {
-		return nil, err
-	}
-	c, err := cloudFromMatrix(points)
+	c, r, err := prepareMatrix(points, set)
 	if err != nil {
 		return nil, err
 	}
