@@ -299,18 +299,21 @@ func appendVarints(dst []int64, f field, where, name string) ([]int64, error) {
 	return nil, formatf(where, "field %s (%d) has wire type %d, want varint or packed", name, f.num, f.typ)
 }
 
+// growInt64 makes room for n more elements, at least doubling the
+// capacity so that many small repeated fields cost linear time.
 func growInt64(s []int64, n int) []int64 {
 	if cap(s)-len(s) < n {
-		t := make([]int64, len(s), len(s)+n)
+		t := make([]int64, len(s), max(len(s)+n, 2*cap(s)))
 		copy(t, s)
 		s = t
 	}
 	return s
 }
 
+// growFloat64 is growInt64 for float64.
 func growFloat64(s []float64, n int) []float64 {
 	if cap(s)-len(s) < n {
-		t := make([]float64, len(s), len(s)+n)
+		t := make([]float64, len(s), max(len(s)+n, 2*cap(s)))
 		copy(t, s)
 		s = t
 	}
