@@ -26,7 +26,7 @@ import (
 const Version = "0.1.0"
 
 // RunFile opens the ONNX model at path, extracts its stages (one stage
-// per node, onnxload's default view), runs the trace and records the
+// per node, or fused layers when Settings.Fuse is set), runs the trace and records the
 // file name and SHA-256 in Trace.Model.
 func RunFile(ctx context.Context, path string, s *Sample, set *Settings) (*Trace, error) {
 	data, err := os.ReadFile(path)
@@ -37,7 +37,8 @@ func RunFile(ctx context.Context, path string, s *Sample, set *Settings) (*Trace
 	if err != nil {
 		return nil, err
 	}
-	stages, err := m.Stages(nil)
+	fuse := set != nil && set.Fuse
+	stages, err := m.Stages(&onnxload.StageSettings{FuseAffine: fuse})
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
@@ -89,6 +90,9 @@ func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings)
 	t0 := time.Now()
 	acts, err := onnxload.Forward(ctx, stages, s.X, &onnxload.ForwardSettings{Workers: rs.Workers})
 	if err != nil {
+		if ctx.Err() != nil {
+			return &Trace{Schema: SchemaVersion, Tool: "crease " + Version, Settings: rs}, ctx.Err()
+		}
 		return nil, err
 	}
 	timing.Forward = time.Since(t0)

@@ -289,6 +289,9 @@ type Settings struct {
 	Cap int `json:"cap"`
 	// Seed seeds the subsampling and every randomised measure.
 	Seed uint64 `json:"seed"`
+	// Fuse makes RunFile fuse consecutive affine stages into one (the
+	// layer view of onnxload.StageSettings.FuseAffine).
+	Fuse bool `json:"fuse"`
 	// Whole computes the whole sample's homology as well as each
 	// class's; DefaultSettings sets it.
 	Whole bool `json:"whole"`
@@ -348,6 +351,8 @@ func (s Settings) resolve() (Settings, error) {
 		return s, fmt.Errorf("trace: persistence %v must be positive", s.Persistence)
 	case s.MaxThreshold < 0 || math.IsNaN(s.MaxThreshold):
 		return s, fmt.Errorf("trace: max threshold %v must not be negative", s.MaxThreshold)
+	case s.Cap > 0 && s.Cap < MinClassPoints:
+		return s, fmt.Errorf("trace: per-class cap %d is below the minimum of %d points per class", s.Cap, MinClassPoints)
 	case s.K < 1:
 		return s, fmt.Errorf("trace: k %d must be positive", s.K)
 	case s.Hops < 1:

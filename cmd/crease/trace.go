@@ -1,0 +1,146 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package main
+
+import (
+	"context"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"strings"
+
+	"golang.org/x/term"
+
+	"crease.dev/crease/trace"
+)
+
+func init() {
+	register(&command{
+		name:    "trace",
+		summary: "trace a labeled sample through every stage of an ONNX model",
+		run:     runTrace,
+	})
+}
+
+const traceSynopsis = "MODEL.onnx DATA.csv|FEATURES.npy [--labels COL|LABELS.npy] [--maxdim D] [--metric euclidean|knn] [--rule relative|persistence|hops] [--per-class-cap N] [--seed S] [--out trace.json] [--csv long.csv]"
+
+// runTrace runs trace.RunFile and prints the per-stage table. For a CSV
+// sample --labels names the label column (header name or 1-based
+// number; default the last column); for an NPY sample it names the NPY
+// file of integer labels.
+func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer) error {
+	fs := newFlagSet("trace", traceSynopsis, stderr)
+	labels := fs.String("labels", "", "CSV: label column (header name or 1-based number; default last); NPY: the labels .npy file")
+	header := fs.String("header", "auto", "CSV: is the first record a header: auto, yes or no")
+	maxDim := fs.Int("maxdim", 1, "highest homology dimension, 0..3")
+	metric := fs.String("metric", "euclidean", "euclidean (scale relative to each cloud's diameter) or knn (hop count on the k-NN graph; same as --rule hops)")
+	rule := fs.String("rule", "", "scale rule: relative, persistence or hops (default from --metric)")
+	scale := fs.Float64("scale", trace.DefaultScale, "relative rule: read Betti numbers at this fraction of the diameter")
+	pers := fs.Float64("persistence", trace.DefaultPersistence, "persistence rule: count bars at least this fraction of the diameter long")
+	k := fs.Int("k", trace.DefaultK, "hops rule: neighbours in the k-NN graph")
+	hops := fs.Int("hops", trace.DefaultHops, "hops rule: read Betti numbers at this hop count")
+	capN := fs.Int("per-class-cap", trace.DefaultCap, "at most this many points per class (seeded stratified subsample); negative means all")
+	seed := fs.Uint64("seed", 1, "seed of the subsample")
+	fuse := fs.Bool("fuse", false, "fuse consecutive affine stages (the layer view)")
+	whole := fs.Bool("whole", true, "also compute the whole sample's homology")
+	out := fs.String("out", "", "write the trace as JSON to this file (atomically)")
+	csvOut := fs.String("csv", "", "write the long CSV (stage,kind,class,measure,value) to this file")
+	timing := fs.Bool("timing", false, "record wall times in the JSON (makes it differ between runs)")
+	pos, err := parseFlags(fs, args)
+	if err != nil {
+		return err
+	}
+	if len(pos) != 2 {
+		fs.Usage()
+		return fmt.Errorf("usage: want MODEL and DATA arguments, got %d", len(pos))
+	}
+	set := &trace.Settings{MaxDim: *maxDim, Scale: *scale, Persistence: *pers, K: *k, Hops: *hops,
+		Cap: *capN, Seed: *seed, Fuse: *fuse, Whole: *whole, Timing: *timing}
+	switch *metric {
+	case "euclidean":
+	case "knn":
+		set.Rule = trace.ScaleHops
+	default:
+		return fmt.Errorf("--metric %q: want euclidean or knn", *metric)
+	}
+	if *rule != "" {
+		if set.Rule, err = trace.ParseScaleRule(*rule); err != nil {
+			return err
+		}
+	}
+	if *capN == 0 {
+		return fmt.Errorf("--per-class-cap 0: want a positive cap or a negative value for no cap")
+	}
+	sample, err := readSample(pos[1], *labels, *header, stdin)
+	if err != nil {
+		return err
+	}
+	if f, ok := stderr.(*os.File); ok && term.IsTerminal(int(f.Fd())) {
+		set.Progress = func(p trace.Progress) {
+			const w = 30
+			n := w * p.Done / max(p.Total, 1)
+			fmt.Fprintf(stderr, "\r[%s%s] %d/%d stage %d", strings.Repeat("#", n), strings.Repeat(" ", w-n), p.Done, p.Total, p.Stage)
+			if p.Done == p.Total {
+				fmt.Fprintln(stderr)
+			}
+		}
+	}
+	tr, err := trace.RunFile(ctx, pos[0], sample, set)
+	if err != nil {
+		return err
+	}
+	if err := tr.WriteTable(stdout); err != nil {
+		return err
+	}
+	if *out != "" {
+		if err := writeFileAtomic(*out, tr.WriteJSON); err != nil {
+			return err
+		}
+	}
+	if *csvOut != "" {
+		if err := writeFileAtomic(*csvOut, tr.WriteCSV); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// readSample reads a CSV sample, or an NPY pair when data ends in .npy.
+func readSample(data, labels, header string, stdin io.Reader) (*trace.Sample, error) {
+	if strings.HasSuffix(data, ".npy") {
+		if !strings.HasSuffix(labels, ".npy") {
+			return nil, fmt.Errorf("%s: NPY features need --labels LABELS.npy", data)
+		}
+		fx, err := os.Open(data)
+		if err != nil {
+			return nil, err
+		}
+		defer fx.Close()
+		fl, err := os.Open(labels)
+		if err != nil {
+			return nil, err
+		}
+		defer fl.Close()
+		return trace.ReadNPY(fx, data, fl, labels)
+	}
+	r, closeIn, name, err := openInput(data, stdin)
+	if err != nil {
+		return nil, err
+	}
+	defer closeIn()
+	return trace.ReadCSV(r, name, &trace.CSVSettings{Label: labels, Header: header})
+}
+
+// flagSet reports whether the flag name was given on the command line.
+func flagSet(fs *flag.FlagSet, name string) bool {
+	found := false
+	fs.Visit(func(f *flag.Flag) {
+		if f.Name == name {
+			found = true
+		}
+	})
+	return found
+}

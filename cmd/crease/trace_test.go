@@ -1,0 +1,156 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package main
+
+import (
+	"bytes"
+	"context"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"crease.dev/crease/trace"
+)
+
+const (
+	digitsModel  = "../../testdata/onnx/digits.onnx"
+	digitsSample = "../../testdata/onnx/digits_sample.csv"
+)
+
+// smallCSV writes a CSV with width feature columns and classes a, b (n
+// rows each) and returns its path.
+func smallCSV(t *testing.T, width, n int, extra string) string {
+	var b strings.Builder
+	for c, name := range []string{"a", "b"} {
+		for i := range n {
+			for j := range width {
+				b.WriteString([]string{"0.1", "0.5", "0.9", "0.3"}[(i+j+c)%4])
+				b.WriteString(",")
+			}
+			b.WriteString(name + "\n")
+		}
+	}
+	b.WriteString(extra)
+	p := filepath.Join(t.TempDir(), "s.csv")
+	if err := os.WriteFile(p, []byte(b.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+// TestTraceCommand traces the digits model and checks that the JSON
+// file reads back, that two runs give the same bytes and that the
+// table shows every stage.
+func TestTraceCommand(t *testing.T) {
+	dir := t.TempDir()
+	var outs [2][]byte
+	for i := range outs {
+		out := filepath.Join(dir, "t.json")
+		var stdout, stderr bytes.Buffer
+		code := creaseMain(context.Background(), []string{"trace", digitsModel, digitsSample, "--labels", "label", "--per-class-cap", "10", "--out", out}, nil, &stdout, &stderr)
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, stderr.String())
+		}
+		if !strings.Contains(stdout.String(), "5      affine  10") {
+			t.Errorf("table lacks the last stage:\n%s", stdout.String())
+		}
+		b, err := os.ReadFile(out)
+		if err != nil {
+			t.Fatal(err)
+		}
+		outs[i] = b
+	}
+	if !bytes.Equal(outs[0], outs[1]) {
+		t.Error("two runs with the same seed wrote different JSON")
+	}
+	tr, err := trace.ReadJSON(bytes.NewReader(outs[0]))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(tr.Stages) != 6 || tr.Model.SHA256 == "" || tr.Sample.Rows != 300 || len(tr.Sample.Indices) != 100 {
+		t.Errorf("stages %d, sha %q, rows %d, used %d", len(tr.Stages), tr.Model.SHA256, tr.Sample.Rows, len(tr.Sample.Indices))
+	}
+}
+
+// TestTraceBadInput checks exit status 2, a message naming the problem
+// and no output file for each kind of bad input.
+func TestTraceBadInput(t *testing.T) {
+	dir := t.TempDir()
+	notNPY := filepath.Join(dir, "x.npy")
+	os.WriteFile(notNPY, []byte("not an npy file"), 0o644)
+	for _, tc := range []struct {
+		name string
+		args []string
+		want string
+	}{
+		{"unknown label column", []string{digitsModel, digitsSample, "--labels", "digit"}, `no label column named "digit"`},
+		{"small class", []string{digitsModel, smallCSV(t, 64, 5, strings.Repeat("0,", 64)+"c\n"+strings.Repeat("0,", 64)+"c\n")}, `class "c" has 2 points`},
+		{"width", []string{digitsModel, smallCSV(t, 3, 5, "")}, "3 feature columns but the model's input width is 64"},
+		{"nan", []string{digitsModel, smallCSV(t, 64, 5, strings.Repeat("0,", 63)+"NaN,a\n")}, "column 64: \"NaN\" is not finite"},
+		{"npy", []string{digitsModel, notNPY, "--labels", notNPY}, "x.npy: cannot read NPY features"},
+		{"npy without labels", []string{digitsModel, notNPY}, "need --labels LABELS.npy"},
+		{"missing model", []string{filepath.Join(dir, "none.onnx"), digitsSample}, "none.onnx"},
+		{"rule", []string{digitsModel, digitsSample, "--rule", "wide"}, "unknown scale rule"},
+		{"args", []string{digitsModel}, "usage"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			out := filepath.Join(dir, "out.json")
+			var stdout, stderr bytes.Buffer
+			code := creaseMain(context.Background(), append(append([]string{"trace"}, tc.args...), "--out", out), nil, &stdout, &stderr)
+			if code != 2 {
+				t.Errorf("exit %d, want 2", code)
+			}
+			if !strings.Contains(stderr.String(), tc.want) {
+				t.Errorf("stderr %q lacks %q", stderr.String(), tc.want)
+			}
+			if _, err := os.Stat(out); err == nil {
+				t.Error("output file written on error")
+			}
+			left, _ := filepath.Glob(filepath.Join(dir, ".crease-*"))
+			if len(left) > 0 {
+				t.Errorf("temporary files left: %v", left)
+			}
+		})
+	}
+}
+
+// TestCompareCommand compares a digits trace with itself and with a
+// trace at another seed: the first agrees, the second diverges and
+// exits 1 when a tolerance is given.
+func TestCompareCommand(t *testing.T) {
+	dir := t.TempDir()
+	for i, seed := range []string{"1", "2"} {
+		var stdout, stderr bytes.Buffer
+		out := filepath.Join(dir, []string{"a.json", "b.json"}[i])
+		if code := creaseMain(context.Background(), []string{"trace", digitsModel, digitsSample, "--per-class-cap", "10", "--seed", seed, "--out", out}, nil, &stdout, &stderr); code != 0 {
+			t.Fatalf("trace exit %d: %s", code, stderr.String())
+		}
+	}
+	a, b := filepath.Join(dir, "a.json"), filepath.Join(dir, "b.json")
+	for _, tc := range []struct {
+		name string
+		args []string
+		code int
+		want string
+	}{
+		{"same", []string{a, a, "--tol", "0"}, 0, "no divergence"},
+		{"differ no tol", []string{a, b}, 0, "first divergence at stage "},
+		{"differ tol", []string{a, b, "--tol", "1e-9"}, 1, "first divergence at stage "},
+		{"missing", []string{a, filepath.Join(dir, "none.json")}, 2, ""},
+		{"not a trace", []string{a, digitsSample}, 2, ""},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			var stdout, stderr bytes.Buffer
+			code := creaseMain(context.Background(), append([]string{"compare"}, tc.args...), nil, &stdout, &stderr)
+			if code != tc.code {
+				t.Errorf("exit %d, want %d (stderr %q)", code, tc.code, stderr.String())
+			}
+			if !strings.Contains(stdout.String(), tc.want) {
+				t.Errorf("stdout %q lacks %q", stdout.String(), tc.want)
+			}
+		})
+	}
+}
