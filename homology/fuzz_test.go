@@ -11,8 +11,8 @@ import (
 	"testing"
 )
 
-// fullMatrix returns the distances of a cloud as a full matrix.
-func fullMatrix(pts [][]float64) [][]float64 {
+// bruteDistances returns the distances of a cloud as a full matrix.
+func bruteDistances(pts [][]float64) [][]float64 {
 	n := len(pts)
 	d := make([][]float64, n)
 	for i := range d {
@@ -29,7 +29,7 @@ func fullMatrix(pts [][]float64) [][]float64 {
 	return d
 }
 
-func barsEqual(a, b []Bar, tol float64) bool {
+func engBarsEqual(a, b []Bar, tol float64) bool {
 	if len(a) != len(b) {
 		return false
 	}
@@ -53,9 +53,9 @@ func checkAgainstBrute(t *testing.T, pts [][]float64, maxDim int, thr float64, p
 	if err != nil {
 		t.Fatalf("RipsPoints: %v", err)
 	}
-	want := bruteRips(fullMatrix(pts), maxDim, got.Threshold, p)
+	want := bruteRips(bruteDistances(pts), maxDim, got.Threshold, p)
 	for d := 0; d <= maxDim; d++ {
-		if !barsEqual(got.Bars[d], want[d], 1e-12) {
+		if !engBarsEqual(got.Bars[d], want[d], 1e-12) {
 			t.Fatalf("n=%d maxdim=%d thr=%v p=%d: H%d\n got %v\nwant %v\npoints %v", len(pts), maxDim, thr, p, d, got.Bars[d], want[d], pts)
 		}
 	}

@@ -11,11 +11,11 @@ import (
 	"testing"
 )
 
-// stableScale picks a scale from a barcode: the midpoint of the longest
+// engStableScale picks a scale from a barcode: the midpoint of the longest
 // interval between consecutive bar endpoints at which the sample is
 // connected (after the last finite H0 death) and some bar of dimension
 // ≥ 1 is alive.
-func stableScale(b *Barcode) float64 {
+func engStableScale(b *Barcode) float64 {
 	var ends []float64
 	lastH0 := 0.0
 	for _, bar := range b.Bars[0] {
@@ -104,7 +104,7 @@ func veroneseRP2(n int) [][]float64 {
 	return pts
 }
 
-func circlePoints(n int, cx, cy float64, skip bool) [][]float64 {
+func engCirclePoints(n int, cx, cy float64, skip bool) [][]float64 {
 	var pts [][]float64
 	for i := 0; i < n; i++ {
 		if skip && i == 0 {
@@ -127,8 +127,8 @@ func circlePoints(n int, cx, cy float64, skip bool) [][]float64 {
 func TestHatcherBetti(t *testing.T) {
 	// Two unit circles centred at (∓1, 0) sharing the point (0, 0): the
 	// first starts there, the second is the mirror image without it.
-	wedge := circlePoints(40, -1, 0, false)
-	for _, p := range circlePoints(40, -1, 0, true) {
+	wedge := engCirclePoints(40, -1, 0, false)
+	for _, p := range engCirclePoints(40, -1, 0, true) {
 		wedge = append(wedge, []float64{-p[0], p[1]})
 	}
 	for _, test := range []struct {
@@ -140,7 +140,7 @@ func TestHatcherBetti(t *testing.T) {
 	}{
 		// For Z/3 the scale is taken from the Z/2 barcode of the same
 		// cloud, where the space's classes are visible.
-		{"circle", circlePoints(60, 0, 0, false), 1, 2, []int{1, 1}},
+		{"circle", engCirclePoints(60, 0, 0, false), 1, 2, []int{1, 1}},
 		{"sphere", fibonacciSphere(150), 2, 2, []int{1, 0, 1}},
 		{"torus", gridTorus4(12), 2, 2, []int{1, 2, 1}},
 		{"wedge of two circles", wedge, 1, 2, []int{1, 2}},
@@ -154,13 +154,13 @@ func TestHatcherBetti(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			eps := stableScale(b)
+			eps := engStableScale(b)
 			if test.field != 2 {
 				b2, err := RipsPoints(context.Background(), test.pts, &Settings{MaxDim: test.maxDim})
 				if err != nil {
 					t.Fatal(err)
 				}
-				eps = stableScale(b2)
+				eps = engStableScale(b2)
 			}
 			if got := b.Betti(eps); !slices.Equal(got, test.want) {
 				t.Errorf("%d points: Betti(%.4g) = %v, want %v; bars %v", len(test.pts), eps, got, test.want, b.Bars[1:])

@@ -16,9 +16,9 @@ import (
 	"gonum.org/v1/gonum/mat"
 )
 
-var inf = math.Inf(1)
+var pinf = math.Inf(1) // shorthand for infinite deaths
 
-func mustRips(t *testing.T, pts [][]float64, set *Settings) *Barcode {
+func engRips(t *testing.T, pts [][]float64, set *Settings) *Barcode {
 	t.Helper()
 	b, err := RipsPoints(context.Background(), pts, set)
 	if err != nil {
@@ -45,23 +45,23 @@ func TestHandChecked(t *testing.T) {
 		reason string
 	}{
 		{"two points", [][]float64{{0, 0}, {3, 4}}, 1,
-			[][]Bar{{{0, 5}, {0, inf}}, nil},
+			[][]Bar{{{0, 5}, {0, pinf}}, nil},
 			"one component dies when the edge of length 5 enters"},
 		{"equilateral triangle", [][]float64{{0, 0}, {1, 0}, {0.5, s3 / 2}}, 1,
-			[][]Bar{{{0, 1}, {0, 1}, {0, inf}}, nil},
+			[][]Bar{{{0, 1}, {0, 1}, {0, pinf}}, nil},
 			"the three edges and the triangle enter at 1 together: no H1 bar of positive length"},
 		{"unit square", [][]float64{{0, 0}, {1, 0}, {1, 1}, {0, 1}}, 2,
-			[][]Bar{{{0, 1}, {0, 1}, {0, 1}, {0, inf}}, {{1, math.Sqrt2}}, nil},
+			[][]Bar{{{0, 1}, {0, 1}, {0, 1}, {0, pinf}}, {{1, math.Sqrt2}}, nil},
 			"the 4-cycle of sides appears at 1 and is filled when the diagonals enter at √2"},
 		{"regular hexagon", hex, 2,
-			[][]Bar{{{0, 1}, {0, 1}, {0, 1}, {0, 1}, {0, 1}, {0, inf}}, {{1, s3}}, {{s3, 2}}},
+			[][]Bar{{{0, 1}, {0, 1}, {0, 1}, {0, 1}, {0, 1}, {0, pinf}}, {{1, s3}}, {{s3, 2}}},
 			"at √3 the complex is the boundary of an octahedron (two triangles of short diagonals " +
 				"plus the band), a 2-sphere that the long diagonals (length 2) fill"},
 	} {
 		t.Run(test.name, func(t *testing.T) {
-			b := mustRips(t, test.pts, &Settings{MaxDim: test.maxDim})
+			b := engRips(t, test.pts, &Settings{MaxDim: test.maxDim})
 			for d := range test.want {
-				if !barsEqual(b.Bars[d], test.want[d], tol) {
+				if !engBarsEqual(b.Bars[d], test.want[d], tol) {
 					t.Errorf("H%d = %v, want %v (%s)", d, b.Bars[d], test.want[d], test.reason)
 				}
 			}
@@ -77,7 +77,7 @@ func transform(pts [][]float64, f func(x []float64) []float64) [][]float64 {
 	return out
 }
 
-func randomCloud(rng *rand.Rand, n, d int) [][]float64 {
+func engRandom(rng *rand.Rand, n, d int) [][]float64 {
 	pts := make([][]float64, n)
 	for i := range pts {
 		pts[i] = make([]float64, d)
@@ -94,9 +94,9 @@ func randomCloud(rng *rand.Rand, n, d int) [][]float64 {
 // distances by c scales every bar by c.
 func TestInvariance(t *testing.T) {
 	rng := rand.New(rand.NewPCG(3, 4))
-	pts := randomCloud(rng, 60, 3)
+	pts := engRandom(rng, 60, 3)
 	set := &Settings{MaxDim: 2}
-	base := mustRips(t, pts, set)
+	base := engRips(t, pts, set)
 
 	perm := rng.Perm(len(pts))
 	permuted := make([][]float64, len(pts))
@@ -116,17 +116,17 @@ func TestInvariance(t *testing.T) {
 		return x
 	})
 	for d := 0; d <= 2; d++ {
-		if got := mustRips(t, permuted, set).Bars[d]; !barsEqual(got, base.Bars[d], 1e-12) {
+		if got := engRips(t, permuted, set).Bars[d]; !engBarsEqual(got, base.Bars[d], 1e-12) {
 			t.Errorf("permutation changed H%d", d)
 		}
-		if got := mustRips(t, moved, set).Bars[d]; !barsEqual(got, base.Bars[d], 1e-9) {
+		if got := engRips(t, moved, set).Bars[d]; !engBarsEqual(got, base.Bars[d], 1e-9) {
 			t.Errorf("isometry changed H%d", d)
 		}
 		sb := make([]Bar, len(base.Bars[d]))
 		for i, b := range base.Bars[d] {
 			sb[i] = Bar{b.Birth * scale, b.Death * scale}
 		}
-		if got := mustRips(t, scaled, set).Bars[d]; !barsEqual(got, sb, 1e-9) {
+		if got := engRips(t, scaled, set).Bars[d]; !engBarsEqual(got, sb, 1e-9) {
 			t.Errorf("scaling by %v: H%d = %v, want %v", scale, d, got, sb)
 		}
 	}
@@ -139,15 +139,15 @@ func TestInvariance(t *testing.T) {
 func TestStability(t *testing.T) {
 	rng := rand.New(rand.NewPCG(5, 6))
 	for trial := 0; trial < 5; trial++ {
-		pts := circleCloud(80, 0.05, uint64(trial))
+		pts := engCircle(80, 0.05, uint64(trial))
 		delta := 0.01 + 0.05*rng.Float64()
 		moved := transform(pts, func(x []float64) []float64 {
 			// A random direction of length ≤ δ.
 			a, r := 2*math.Pi*rng.Float64(), delta*rng.Float64()
 			return []float64{x[0] + r*math.Cos(a), x[1] + r*math.Sin(a)}
 		})
-		a := mustRips(t, pts, nil)
-		b := mustRips(t, moved, nil)
+		a := engRips(t, pts, nil)
+		b := engRips(t, moved, nil)
 		for d := 0; d <= 1; d++ {
 			if bd := Bottleneck(a.Bars[d], b.Bars[d]); bd > 2*delta+1e-12 {
 				t.Errorf("trial %d: H%d bottleneck %v > 2δ = %v", trial, d, bd, 2*delta)
@@ -168,8 +168,8 @@ func TestBottleneck(t *testing.T) {
 		{"shifted bar", []Bar{{0, 2}}, []Bar{{0.25, 2.5}}, 0.5},
 		{"cheaper to diagonal", []Bar{{0, 1}}, []Bar{{5, 6}}, 0.5},
 		{"two against one", []Bar{{0, 4}, {1, 1.2}}, []Bar{{0, 4.1}}, 0.1},
-		{"essential match", []Bar{{0, inf}, {0, 1}}, []Bar{{0.3, inf}, {0, 1}}, 0.3},
-		{"essential count differs", []Bar{{0, inf}}, []Bar{{0, 3}}, inf},
+		{"essential match", []Bar{{0, pinf}, {0, 1}}, []Bar{{0.3, pinf}, {0, 1}}, 0.3},
+		{"essential count differs", []Bar{{0, pinf}}, []Bar{{0, 3}}, pinf},
 		{"zero-length bars ignored", []Bar{{1, 1}}, nil, 0},
 	} {
 		t.Run(test.name, func(t *testing.T) {
@@ -200,7 +200,7 @@ func TestBottleneckBrute(t *testing.T) {
 		// Brute force: extend both sides with diagonal slots and try every
 		// permutation.
 		n := len(a) + len(b)
-		best := inf
+		best := pinf
 		perm := make([]int, n)
 		for i := range perm {
 			perm[i] = i
@@ -302,7 +302,7 @@ func TestBadInput(t *testing.T) {
 }
 
 func TestMemoryBudget(t *testing.T) {
-	pts := circleCloud(300, 0.1, 1)
+	pts := engCircle(300, 0.1, 1)
 	_, err := RipsPoints(context.Background(), pts, &Settings{MaxDim: 1, MaxBytes: 1 << 20})
 	var me *MemoryError
 	if !errors.As(err, &me) {
@@ -315,7 +315,7 @@ func TestMemoryBudget(t *testing.T) {
 }
 
 func TestCancel(t *testing.T) {
-	pts := circleCloud(1000, 0.1, 1)
+	pts := engCircle(1000, 0.1, 1)
 	ctx, cancel := context.WithCancel(context.Background())
 	var start time.Time
 	calls := 0
@@ -337,11 +337,11 @@ func TestCancel(t *testing.T) {
 
 func TestThreshold(t *testing.T) {
 	sq := [][]float64{{0, 0}, {1, 0}, {1, 1}, {0, 1}}
-	b := mustRips(t, sq, &Settings{MaxDim: 1, Threshold: 1.2})
-	if !b.Truncated || b.Threshold != 1.2 || !barsEqual(b.Bars[1], []Bar{{1, inf}}, 0) {
+	b := engRips(t, sq, &Settings{MaxDim: 1, Threshold: 1.2})
+	if !b.Truncated || b.Threshold != 1.2 || !engBarsEqual(b.Bars[1], []Bar{{1, pinf}}, 0) {
 		t.Errorf("truncated square: %+v", b)
 	}
-	b = mustRips(t, sq, &Settings{MaxDim: 1, Threshold: 10})
+	b = engRips(t, sq, &Settings{MaxDim: 1, Threshold: 10})
 	if b.Truncated || b.Threshold != math.Sqrt2 || b.EnclosingRadius != math.Sqrt2 {
 		t.Errorf("threshold above the enclosing radius: %+v", b)
 	}
@@ -357,7 +357,7 @@ func TestKNNGeodesic(t *testing.T) {
 		pts = append(pts, []float64{math.Cos(a), math.Sin(a)})
 		pts = append(pts, []float64{100 + math.Cos(a), math.Sin(a)})
 	}
-	b := mustRips(t, pts, &Settings{MaxDim: 1, Metric: KNNGeodesic, K: 2})
+	b := engRips(t, pts, &Settings{MaxDim: 1, Metric: KNNGeodesic, K: 2})
 	ess := 0
 	for _, bar := range b.Bars[0] {
 		if isInf(bar.Death) {
@@ -377,8 +377,8 @@ func TestKNNGeodesic(t *testing.T) {
 
 func TestCosine(t *testing.T) {
 	// Points on the same ray are at cosine distance 0; orthogonal ones at 1.
-	b := mustRips(t, [][]float64{{1, 0}, {2, 0}, {0, 3}}, &Settings{Metric: Cosine})
-	if !barsEqual(b.Bars[0], []Bar{{0, 1}, {0, inf}}, 1e-15) {
+	b := engRips(t, [][]float64{{1, 0}, {2, 0}, {0, 3}}, &Settings{Metric: Cosine})
+	if !engBarsEqual(b.Bars[0], []Bar{{0, 1}, {0, pinf}}, 1e-15) {
 		t.Errorf("H0 = %v", b.Bars[0])
 	}
 }
@@ -386,11 +386,11 @@ func TestCosine(t *testing.T) {
 // TestDistanceInputs checks that the three distance inputs agree with
 // the point cloud.
 func TestDistanceInputs(t *testing.T) {
-	pts := circleCloud(40, 0.1, 2)
+	pts := engCircle(40, 0.1, 2)
 	ctx := context.Background()
 	set := &Settings{MaxDim: 2}
-	want := mustRips(t, pts, set)
-	full, err := NewFullDistances(fullMatrix(pts))
+	want := engRips(t, pts, set)
+	full, err := NewFullDistances(bruteDistances(pts))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -410,7 +410,7 @@ func TestDistanceInputs(t *testing.T) {
 			t.Fatal(err)
 		}
 		for k := range want.Bars {
-			if !barsEqual(got.Bars[k], want.Bars[k], 1e-12) {
+			if !engBarsEqual(got.Bars[k], want.Bars[k], 1e-12) {
 				t.Errorf("%s: H%d differs", name, k)
 			}
 		}
@@ -418,7 +418,7 @@ func TestDistanceInputs(t *testing.T) {
 }
 
 func TestLandmarks(t *testing.T) {
-	pts := circleCloud(500, 0, 1)
+	pts := engCircle(500, 0, 1)
 	m := mat.NewDense(len(pts), 2, nil)
 	for i, p := range pts {
 		m.SetRow(i, p)
@@ -434,7 +434,7 @@ func TestLandmarks(t *testing.T) {
 	// Check the covering radius by brute force.
 	worst := 0.0
 	for i := range pts {
-		best := inf
+		best := pinf
 		for _, j := range idx {
 			best = math.Min(best, math.Hypot(pts[i][0]-pts[j][0], pts[i][1]-pts[j][1]))
 		}
@@ -448,7 +448,7 @@ func TestLandmarks(t *testing.T) {
 	for i, j := range idx {
 		sub[i] = pts[j]
 	}
-	a, b := mustRips(t, pts, nil), mustRips(t, sub, nil)
+	a, b := engRips(t, pts, nil), engRips(t, sub, nil)
 	if bd := Bottleneck(a.Bars[1], b.Bars[1]); bd > 2*r {
 		t.Errorf("H1 bottleneck %v > 2r = %v", bd, 2*r)
 	}
