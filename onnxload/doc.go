@@ -37,7 +37,9 @@
 // stages: Gemm (alpha, beta, transB, optional bias), MatMul with or
 // without a following Add bias on either side, MatMul by a transposed
 // initializer, inference-mode BatchNormalization (its own affine stage),
-// Flatten and Reshape to (N, −1) (reshape stages), Identity and Dropout
+// Flatten and Reshape to (N, −1) (reshape stages; the Shape, Gather,
+// Unsqueeze and Concat that x.view(x.size(0), −1) exports with a dynamic
+// batch are folded into the Reshape), Identity and Dropout
 // (no stage), and the activations Relu, LeakyRelu, Elu, Softplus,
 // Sigmoid, Tanh, Softmax and LogSoftmax over the feature axis. Constant
 // nodes and initializers listed as graph inputs (IR version 3) are

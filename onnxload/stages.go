@@ -26,7 +26,14 @@ var SupportedOps = []string{
 	"BatchNormalization", "Constant", "Dropout", "Elu", "Flatten", "Gemm",
 	"Identity", "LeakyRelu", "LogSoftmax", "MatMul", "Relu", "Reshape",
 	"Sigmoid", "Softmax", "Softplus", "Tanh", "Transpose", "Add",
+	// Shape arithmetic of x.view(x.size(0), -1) with a dynamic batch.
+	"Shape", "Gather", "Unsqueeze", "Concat",
 }
+
+// batchDim marks the batch size in the int64 tensors that Shape of the
+// data produces; the stage builder follows it through Gather, Unsqueeze
+// and Concat into a Reshape.
+const batchDim = math.MinInt64
 
 // value is what the stage builder knows about a named value: either a
 // constant tensor, or the data flowing through the chain.
@@ -243,6 +250,7 @@ func (b *builder) node(n *Node, i int) error {
 		"Relu": {1, 1}, "LeakyRelu": {1, 1}, "Elu": {1, 1}, "Softplus": {1, 1},
 		"Sigmoid": {1, 1}, "Tanh": {1, 1}, "Softmax": {1, 1}, "LogSoftmax": {1, 1},
 		"Constant": {0, 0}, "Transpose": {1, 1},
+		"Shape": {1, 1}, "Gather": {2, 2}, "Unsqueeze": {1, 2}, "Concat": {1, math.MaxInt32},
 	}
 	ar, ok := nin[n.OpType]
 	if !ok {
@@ -293,6 +301,23 @@ func (b *builder) node(n *Node, i int) error {
 	}
 	w := data.width()
 	switch n.OpType {
+	case "Shape":
+		full := append([]int64{batchDim}, data.shape...)
+		r := int64(len(full))
+		start, end := intAttr(n, "start", 0), intAttr(n, "end", r)
+		if start < 0 {
+			start += r
+		}
+		if end < 0 {
+			end += r
+		}
+		start, end = min(max(start, 0), r), min(max(end, 0), r)
+		if end < start {
+			end = start
+		}
+		vals := append([]int64(nil), full[start:end]...)
+		b.setOutput(n, &value{konst: &Tensor{Name: n.Outputs[0], DataType: Int64, Dims: []int64{int64(len(vals))}, Int64: vals}})
+		return nil
 	case "Identity", "Dropout":
 		if n.OpType == "Dropout" {
 			if len(n.Outputs) > 1 && n.Outputs[1] != "" && b.uses[n.Outputs[1]] > 0 {
@@ -594,9 +619,17 @@ func (b *builder) reshape(n *Node, i int, data *value) ([]int64, error) {
 			}
 		}
 	}
-	s := st.Int64
+	s := append([]int64(nil), st.Int64...)
+	if s[0] == batchDim {
+		s[0] = 0
+	}
 	w := int64(data.width())
 	rest := append([]int64(nil), s[1:]...)
+	for _, v := range rest {
+		if v == batchDim {
+			return nil, b.unsupported(n, i, "the shape moves the batch dimension")
+		}
+	}
 	known := int64(1)
 	infer := -1
 	for k, v := range rest {
@@ -672,8 +705,66 @@ func (b *builder) constNode(n *Node, i int) error {
 		}
 		b.setOutput(n, &value{konst: out})
 		return nil
+	case "Gather", "Unsqueeze", "Concat":
+		out, err := foldShapeOp(n, b, i)
+		if err != nil {
+			return err
+		}
+		b.setOutput(n, &value{konst: out})
+		return nil
 	}
-	return b.unsupported(n, i, "%s of constants is not supported (only Identity, Dropout and Transpose are folded)", n.OpType)
+	return b.unsupported(n, i, "%s of constants is not supported (only Identity, Dropout, Transpose, Gather, Unsqueeze and Concat are folded)", n.OpType)
+}
+
+// foldShapeOp folds Gather, Unsqueeze and Concat on small int64 tensors,
+// the shape arithmetic exporters emit around Reshape.
+func foldShapeOp(n *Node, b *builder, i int) (*Tensor, error) {
+	in := b.input(n, 0).konst
+	if in.DataType != Int64 || len(in.Dims) > 1 {
+		return nil, b.unsupported(n, i, "%s of a %v tensor of rank %d; only shape arithmetic on 1-D int64 tensors is folded", n.OpType, in.DataType, len(in.Dims))
+	}
+	out := &Tensor{Name: n.Outputs[0], DataType: Int64}
+	switch n.OpType {
+	case "Gather":
+		idx := b.input(n, 1).konst
+		if idx.DataType != Int64 || len(idx.Dims) > 1 || intAttr(n, "axis", 0) != 0 || len(in.Dims) != 1 {
+			return nil, b.unsupported(n, i, "only Gather of 1-D int64 values along axis 0 by int64 indices is folded")
+		}
+		for _, k := range idx.Int64 {
+			if k < 0 {
+				k += int64(len(in.Int64))
+			}
+			if k < 0 || k >= int64(len(in.Int64)) {
+				return nil, b.malformed(n, i, "index %d out of range for %d values", k, len(in.Int64))
+			}
+			out.Int64 = append(out.Int64, in.Int64[k])
+		}
+		out.Dims = append([]int64(nil), idx.Dims...)
+	case "Unsqueeze":
+		axes := []int64(nil)
+		if a := n.Attr("axes"); a != nil {
+			axes = a.Ints
+		} else if ax := b.input(n, 1); ax != nil && ax.konst.DataType == Int64 {
+			axes = ax.konst.Int64
+		}
+		if len(in.Dims) != 0 || len(axes) != 1 || (axes[0] != 0 && axes[0] != -1) {
+			return nil, b.unsupported(n, i, "only Unsqueeze of a scalar to a 1-D tensor is folded")
+		}
+		out.Dims, out.Int64 = []int64{1}, append([]int64(nil), in.Int64...)
+	case "Concat":
+		if a := intAttr(n, "axis", 0); a != 0 && a != -1 {
+			return nil, b.unsupported(n, i, "only Concat along axis 0 is folded")
+		}
+		for k := range n.Inputs {
+			t := b.input(n, k)
+			if t == nil || t.konst.DataType != Int64 || len(t.konst.Dims) != 1 {
+				return nil, b.unsupported(n, i, "only Concat of 1-D int64 tensors is folded")
+			}
+			out.Int64 = append(out.Int64, t.konst.Int64...)
+		}
+		out.Dims = []int64{int64(len(out.Int64))}
+	}
+	return out, nil
 }
 
 // constantValue returns the tensor held by a Constant node.

@@ -73,6 +73,14 @@ class Rows(nn.Module):
         return x.reshape(-1, self.width)
 
 
+class View(nn.Module):
+    """x.view(x.size(0), -1): with a dynamic batch, exported as Shape,
+    Gather, Unsqueeze and Concat feeding a Reshape."""
+
+    def forward(self, x):
+        return x.view(x.size(0), -1)
+
+
 def leaves(model):
     return [(n, m) for n, m in model.named_modules() if n and not list(m.children())]
 
@@ -273,6 +281,10 @@ def main():
     # Identity and inference Dropout inserted before the first layer.
     save("identity_dropout", seq(nn.Linear(4, 5), nn.ReLU(), nn.Linear(5, 2)), x4, 13,
          "Identity and Dropout(ratio=0.25, inference) nodes inserted after the input with onnx.helper", post=add_identity_dropout)
+    for op in (9, 13):
+        save("view_dynamic%d" % op, seq(View(), nn.Linear(8, 4), nn.ReLU(), nn.Linear(4, 2)), torch.randn(6, 2, 4), op,
+             "x.view(x.size(0), -1) with a dynamic batch: Shape, Gather, Unsqueeze (axes as %s), Concat, Reshape" % ("attribute" if op < 13 else "input"),
+             dynamic=True)
     hand_built()
 
     # Trained on iris (standardised features).
