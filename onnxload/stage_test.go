@@ -224,3 +224,18 @@ func TestStagesUnsupported(t *testing.T) {
 		t.Errorf("two inputs: %v", err)
 	}
 }
+
+// TestStagesBoundMatrices checks that a wide declared input cannot make
+// the stage builder allocate a huge diagonal matrix: an Add on 10⁵
+// features would need a 10⁵×10⁵ weight matrix, above the default
+// MaxElements.
+func TestStagesBoundMatrices(t *testing.T) {
+	m := chain(node("Add", "/wide/Add", []string{"x", "s"}, "y"))
+	m.Inputs[0].Shape[1].Value = 100000
+	m.Initializers = append(m.Initializers, &onnxload.Tensor{Name: "s", DataType: onnxload.Float, Float64: []float64{1}})
+	_, err := m.Stages(nil)
+	var le *onnxload.LimitError
+	if !errors.As(err, &le) || le.Limit != "MaxElements" {
+		t.Fatalf("got %v, want a LimitError on MaxElements", err)
+	}
+}
