@@ -24,9 +24,15 @@ func exampleTrace() *trace.Trace {
 	x := mat.NewDense(2*m, 2, nil)
 	labels := make([]string, 2*m)
 	for k := range m {
-		th := 2 * math.Pi * float64(k) / m
-		x.SetRow(k, []float64{3 + math.Cos(th), 3 + math.Sin(th)})
-		x.SetRow(m+k, []float64{3 + math.Cos(th), 8 + math.Sin(th)})
+		// Angle 2πk/m; the lower half mirrors the upper half exactly.
+		j := min(k, m-k)
+		th := 2 * math.Pi * float64(j) / float64(m)
+		c, sn := math.Cos(th), math.Sin(th)
+		if k > m/2 {
+			sn = -sn
+		}
+		x.SetRow(k, []float64{3 + c, 3 + sn})
+		x.SetRow(m+k, []float64{3 + c, 8 + sn})
 		labels[k], labels[m+k] = "low", "high"
 	}
 	sample, err := trace.NewSample(x, labels)

@@ -6,61 +6,78 @@ package trace
 
 import (
 	"context"
+	"math"
 	"time"
 
 	"gonum.org/v1/gonum/mat"
 
 	"crease.dev/crease/onnxload"
+	"crease.dev/crease/relu"
 )
-
-// glueTol is the distance at or below which two outputs count as one
-// point when the inputs were distinct.
-const glueTol = 1e-12
 
 // stageMeasures fills the Glued counts and Measures of stage st from
 // its input in and output out. It returns the time spent in collapse and
 // in overlap measures.
 func stageMeasures(ctx context.Context, st *Stage, in, out *mat.Dense, ms *onnxload.Stage, labels []int, rs Settings) (drelu, doverlap time.Duration, err error) {
 	t := time.Now()
-	g, err := gluedPairs(ctx, in, out, labels)
+	m := map[string]float64{}
+	put := func(name string, v float64) {
+		if !math.IsNaN(v) && !math.IsInf(v, 0) {
+			m[name] = v
+		}
+	}
+	g, err := relu.Glue(ctx, in, out, labels, &relu.GlueSettings{Tau: rs.GlueTau, Examples: -1})
 	if err != nil {
 		return 0, 0, err
 	}
-	st.Glued = g
+	st.Glued = &Glued{Total: g.Total, Within: g.Within, Cross: g.Cross}
+	put("glue.scale_in", g.ScaleIn)
+	put("glue.scale_out", g.ScaleOut)
+	d, err := relu.Distort(ctx, in, out, nil)
+	if err != nil {
+		return 0, 0, err
+	}
+	put("distort.median", d.Median)
+	put("distort.p10", d.P10)
+	put("distort.p90", d.P90)
+	switch ms.Kind {
+	case onnxload.Affine:
+		a, err := relu.AffineContext(ctx, ms.W, in, out, nil)
+		if err != nil {
+			return 0, 0, err
+		}
+		put("affine.rank", float64(a.Rank))
+		put("affine.kernel", float64(a.Kernel))
+		put("affine.cond", a.Cond)
+		put("affine.rank_in", float64(a.RankIn))
+		put("affine.rank_out", float64(a.RankOut))
+		put("affine.identified", float64(a.Identified))
+		put("affine.forces_identifications", b2f(a.ForcesIdentifications))
+	case onnxload.ReLU:
+		f, err := relu.Fold(in, out, labels, nil)
+		if err != nil {
+			return 0, 0, err
+		}
+		put("fold.untouched", f.UntouchedFrac)
+		put("fold.face", f.FaceFrac)
+		put("fold.origin", f.OriginFrac)
+		put("fold.dead", float64(len(f.Dead)))
+		put("fold.always_active", float64(len(f.AlwaysActive)))
+		put("fold.patterns", float64(f.Patterns))
+		put("fold.entropy", f.Entropy)
+		put("fold.shared_patterns", float64(f.SharedPatterns))
+		put("fold.shared_points", float64(f.SharedPoints))
+	}
 	drelu = time.Since(t)
+	if len(m) > 0 {
+		st.Measures = m
+	}
 	return drelu, 0, nil
 }
 
-// gluedPairs counts pairs with distinct inputs and coincident outputs.
-func gluedPairs(ctx context.Context, in, out *mat.Dense, labels []int) (*Glued, error) {
-	n, _ := in.Dims()
-	g := &Glued{}
-	for i := range n {
-		if i%64 == 0 && ctx.Err() != nil {
-			return nil, ctx.Err()
-		}
-		for j := i + 1; j < n; j++ {
-			if sqdist(in.RawRowView(i), in.RawRowView(j)) == 0 {
-				continue
-			}
-			if sqdist(out.RawRowView(i), out.RawRowView(j)) <= glueTol*glueTol {
-				if labels[i] == labels[j] {
-					g.Within++
-				} else {
-					g.Cross++
-				}
-			}
-		}
+func b2f(b bool) float64 {
+	if b {
+		return 1
 	}
-	g.Total = g.Within + g.Cross
-	return g, nil
-}
-
-func sqdist(a, b []float64) float64 {
-	var s float64
-	for k, v := range a {
-		d := v - b[k]
-		s += d * d
-	}
-	return s
+	return 0
 }

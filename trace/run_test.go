@@ -25,7 +25,9 @@ import (
 // by hand from the construction: the projection (x, y) ↦ (x, 0) sends
 // the points at angles θ and −θ of one circle together (11 pairs per
 // circle of 24 points), and every point of one circle to the one or two
-// points of the other with the same cosine (2·1 + 22·2 = 46 pairs).
+// points of the other with the same cosine (2·1 + 22·2 = 46 pairs);
+// relu.Glue counts exactly these, as the projected sample has duplicate
+// points (median nearest-neighbour distance 0).
 func TestRunCircles(t *testing.T) {
 	tr := circleTrace(t)
 	type want struct {

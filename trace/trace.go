@@ -257,6 +257,8 @@ const (
 	DefaultK = 8
 	// DefaultHops is the hop-count scale of ScaleHops.
 	DefaultHops = 2
+	// DefaultGlueTau is relu's default gluing threshold.
+	DefaultGlueTau = 0.5
 )
 
 // Settings control Run. A nil *Settings means DefaultSettings(). Zero
@@ -289,6 +291,11 @@ type Settings struct {
 	Cap int `json:"cap"`
 	// Seed seeds the subsampling and every randomised measure.
 	Seed uint64 `json:"seed"`
+	// GlueTau is relu.GlueSettings.Tau: a pair counts as glued when its
+	// input distance exceeds GlueTau × the input's median nearest-
+	// neighbour distance and its output distance is at most GlueTau ×
+	// the output's. Zero means DefaultGlueTau.
+	GlueTau float64 `json:"glue_tau"`
 	// Fuse makes RunFile fuse consecutive affine stages into one (the
 	// layer view of onnxload.StageSettings.FuseAffine).
 	Fuse bool `json:"fuse"`
@@ -339,6 +346,9 @@ func (s Settings) resolve() (Settings, error) {
 	if s.Hops == 0 {
 		s.Hops = DefaultHops
 	}
+	if s.GlueTau == 0 {
+		s.GlueTau = DefaultGlueTau
+	}
 	if s.Cap == 0 {
 		s.Cap = DefaultCap
 	}
@@ -353,6 +363,8 @@ func (s Settings) resolve() (Settings, error) {
 		return s, fmt.Errorf("trace: max threshold %v must not be negative", s.MaxThreshold)
 	case s.Cap > 0 && s.Cap < MinClassPoints:
 		return s, fmt.Errorf("trace: per-class cap %d is below the minimum of %d points per class", s.Cap, MinClassPoints)
+	case !(s.GlueTau > 0) || math.IsInf(s.GlueTau, 0):
+		return s, fmt.Errorf("trace: glue tau %v must be positive", s.GlueTau)
 	case s.K < 1:
 		return s, fmt.Errorf("trace: k %d must be positive", s.K)
 	case s.Hops < 1:
