@@ -326,3 +326,45 @@ func BenchmarkDistort(b *testing.B) {
 		}
 	}
 }
+
+// TestGlueBruteForce compares Glue with a direct double loop over all
+// pairs on a ReLU image that sends many points to the origin, so that
+// several blocks of pairs are enumerated and the examples must be the
+// first pairs in (I, J) order whatever the scheduling.
+func TestGlueBruteForce(t *testing.T) {
+	t.Parallel()
+	x, y, labels := reluCloud(1500, 3)
+	y.Apply(func(_, _ int, v float64) float64 { return max(v-0.5, 0) }, y)
+	r, err := Glue(context.Background(), x, y, labels, &GlueSettings{Tau: 0.7, Examples: 25})
+	if err != nil {
+		t.Fatal(err)
+	}
+	dist := func(m *mat.Dense, i, j int) float64 {
+		var s float64
+		for k := 0; k < m.RawMatrix().Cols; k++ {
+			d := m.At(i, k) - m.At(j, k)
+			s += d * d
+		}
+		return math.Sqrt(s)
+	}
+	var total, cross int
+	var ex []GluePair
+	for i := 0; i < 1500; i++ {
+		for j := i + 1; j < 1500; j++ {
+			din, dout := dist(x, i, j), dist(y, i, j)
+			if din > 0.7*r.ScaleIn && dout <= 0.7*r.ScaleOut {
+				total++
+				c := labels[i] != labels[j]
+				if c {
+					cross++
+				}
+				if len(ex) < 25 {
+					ex = append(ex, GluePair{i, j, din, dout, c})
+				}
+			}
+		}
+	}
+	if total < 1000 || r.Total != total || r.Cross != cross || r.Within != total-cross || !slices.Equal(r.Examples, ex) {
+		t.Errorf("got total %d cross %d examples %v; want %d %d %v", r.Total, r.Cross, r.Examples, total, cross, ex)
+	}
+}
