@@ -61,6 +61,9 @@ type engine struct {
 
 	edges []simplex // all edges within the threshold
 
+	// tri, when not nil, holds all distances for O(1) lookups.
+	tri []float64
+
 	budget   int64
 	progress func(Progress)
 	work     int64 // cofaces enumerated so far
@@ -165,6 +168,7 @@ func (e *engine) buildFromTriangle(t *LowerTriangular) error {
 		return err
 	}
 	e.allocLists(deg, m)
+	e.tri = t.Data
 	fill := make([]int, n)
 	copy(fill, e.nbStart[:n])
 	e.edges = make([]simplex, 0, m)
@@ -287,8 +291,16 @@ func (e *engine) checkEdgeBudget(m int64, already int64) error {
 	return nil
 }
 
-// dist returns the length of edge {a,b} within the threshold, or +Inf.
+// dist returns the length of edge {a,b}; it is meant for edges of
+// simplices within the threshold (otherwise it may return the length
+// or +Inf).
 func (e *engine) dist(a, b int32) float64 {
+	if e.tri != nil {
+		if a < b {
+			a, b = b, a
+		}
+		return e.tri[int(a)*(int(a)-1)/2+int(b)]
+	}
 	lo, hi := e.nbStart[a], e.nbStart[a+1]
 	idx := e.nbIdx[lo:hi]
 	// idx is decreasing.
@@ -309,6 +321,19 @@ func (e *engine) dist(a, b int32) float64 {
 
 // vertices decodes the k vertices of simplex idx into w, decreasing.
 func (e *engine) vertices(idx int64, k int, w []int32) {
+	if k == 2 {
+		// Edge {i > j} has index i(i−1)/2 + j: invert with a square root
+		// and correct for rounding.
+		i := int64((1 + math.Sqrt(1+8*float64(idx))) / 2)
+		for i*(i-1)/2 > idx {
+			i--
+		}
+		for (i+1)*i/2 <= idx {
+			i++
+		}
+		w[0], w[1] = int32(i), int32(idx-i*(i-1)/2)
+		return
+	}
 	v := e.n - 1
 	for t := k; t >= 1; t-- {
 		b := e.binom[t]
