@@ -25,6 +25,11 @@ type GlueSettings struct {
 	// Examples is the number of example pairs kept; zero means 10 and a
 	// negative value keeps none.
 	Examples int
+	// Progress, if not nil, is called as the work advances with the
+	// number of steps done and the total (three passes over the rows in
+	// blocks: two nearest-neighbour searches and the pair enumeration).
+	// Calls never overlap.
+	Progress func(done, total int) `json:"-"`
 }
 
 // GluePair is a glued pair of sample rows I < J with its distances before
@@ -92,6 +97,10 @@ func Glue(ctx context.Context, in, out mat.Matrix, labels []int, set *GlueSettin
 	if err != nil {
 		return nil, err
 	}
+	if s.Progress != nil {
+		ci = ci.WithProgress(phase(s.Progress, 0))
+		co = co.WithProgress(phase(s.Progress, 1))
+	}
 	r := &GlueReport{Labeled: labels != nil, Settings: s}
 	if r.ScaleIn, err = medianNN(ctx, ci); err != nil {
 		return nil, err
@@ -100,6 +109,9 @@ func Glue(ctx context.Context, in, out mat.Matrix, labels []int, set *GlueSettin
 		return nil, err
 	}
 	tin, tout := s.Tau*r.ScaleIn, s.Tau*r.ScaleOut
+	if s.Progress != nil {
+		co = co.WithProgress(phase(s.Progress, 2))
+	}
 	keep := max(s.Examples, 0)
 	var mu sync.Mutex
 	err = co.Pairs(ctx, tout, func(b []knn.Pair) error {
@@ -139,6 +151,12 @@ func Glue(ctx context.Context, in, out mat.Matrix, labels []int, set *GlueSettin
 		r.Examples = []GluePair{}
 	}
 	return r, nil
+}
+
+// phase maps the progress of pass p (0, 1 or 2) of three equal passes to
+// overall progress.
+func phase(f func(done, total int), p int) func(done, total int) {
+	return func(done, total int) { f(p*total+done, 3*total) }
 }
 
 // firstPairs sorts p by (I, J) and truncates it to m entries.

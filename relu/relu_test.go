@@ -335,7 +335,15 @@ func TestGlueBruteForce(t *testing.T) {
 	t.Parallel()
 	x, y, labels := reluCloud(1500, 3)
 	y.Apply(func(_, _ int, v float64) float64 { return max(v-0.5, 0) }, y)
-	r, err := Glue(context.Background(), x, y, labels, &GlueSettings{Tau: 0.7, Examples: 25})
+	var last, calls int
+	prog := func(done, total int) {
+		calls++
+		if done != calls || total != 36 { // 3 passes × ⌈1500/128⌉ row blocks
+			t.Errorf("progress (%d, %d) at call %d", done, total, calls)
+		}
+		last = done
+	}
+	r, err := Glue(context.Background(), x, y, labels, &GlueSettings{Tau: 0.7, Examples: 25, Progress: prog})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -363,6 +371,9 @@ func TestGlueBruteForce(t *testing.T) {
 				}
 			}
 		}
+	}
+	if last != 36 {
+		t.Errorf("last progress %d, want 36", last)
 	}
 	if total < 1000 || r.Total != total || r.Cross != cross || r.Within != total-cross || !slices.Equal(r.Examples, ex) {
 		t.Errorf("got total %d cross %d examples %v; want %d %d %v", r.Total, r.Cross, r.Examples, total, cross, ex)

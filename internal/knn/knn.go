@@ -62,6 +62,18 @@ type Cloud struct {
 	cen   blas64.General
 	norm  []float64 // squared norms of the centred rows
 	slack float64   // rounding bound factor: |approx−true| ≤ slack·(normᵢ+normⱼ)
+
+	progress func(done, total int)
+}
+
+// WithProgress returns a Cloud sharing c's points whose [Cloud.Search] and
+// [Cloud.Pairs] call progress after each finished block of rows with the
+// number of blocks done so far and the total. Calls never overlap and done
+// increases by one each time; progress must not block for long.
+func (c *Cloud) WithProgress(progress func(done, total int)) *Cloud {
+	d := *c
+	d.progress = progress
+	return &d
 }
 
 // NewCloud copies the rows of x as points. It returns an [*Error] if x is
@@ -153,9 +165,11 @@ func (c *Cloud) gram(buf []float64, i0, i1, j0, j1 int) blas64.General {
 
 // parallel runs work(block) for block = 0..nblocks−1 on all cores, stopping
 // at the first error or cancellation.
-func parallel(ctx context.Context, nblocks int, work func(w, block int) error) error {
+func parallel(ctx context.Context, nblocks int, progress func(done, total int), work func(w, block int) error) error {
 	workers := min(runtime.GOMAXPROCS(0), nblocks)
 	var (
+		pmu     sync.Mutex
+		done    int
 		next    atomic.Int64
 		once    sync.Once
 		firstEr error
@@ -180,6 +194,12 @@ func parallel(ctx context.Context, nblocks int, work func(w, block int) error) e
 				if err := work(w, b); err != nil {
 					fail(err)
 					return
+				}
+				if progress != nil {
+					pmu.Lock()
+					done++
+					progress(done, nblocks)
+					pmu.Unlock()
 				}
 			}
 		})
@@ -272,7 +292,7 @@ func (c *Cloud) Search(ctx context.Context, k int) (*Graph, error) {
 	bufs := make([][]float64, workers)
 	states := make([][]rowState, workers)
 	nb := (c.n + rowBlock - 1) / rowBlock
-	err := parallel(ctx, nb, func(w, b int) error {
+	err := parallel(ctx, nb, c.progress, func(w, b int) error {
 		if bufs[w] == nil {
 			bufs[w] = make([]float64, rowBlock*colBlock)
 			states[w] = make([]rowState, rowBlock)

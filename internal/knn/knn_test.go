@@ -196,6 +196,31 @@ func TestPairsAgainstBruteForce(t *testing.T) {
 	}
 }
 
+func TestProgress(t *testing.T) {
+	t.Parallel()
+	c, err := NewCloud(randCloud(rand.New(rand.NewPCG(1, 5)), 1000, 2, 0, false))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var calls []int
+	p := c.WithProgress(func(done, total int) {
+		if total != 8 { // ⌈1000/rowBlock⌉ with rowBlock = 128
+			t.Errorf("total %d, want 8", total)
+		}
+		calls = append(calls, done)
+	})
+	if _, err := p.Search(context.Background(), 2); err != nil {
+		t.Fatal(err)
+	}
+	if fmt.Sprint(calls) != "[1 2 3 4 5 6 7 8]" {
+		t.Errorf("progress calls %v", calls)
+	}
+	calls = nil
+	if err := p.Pairs(context.Background(), 0.1, func([]Pair) error { return nil }); err != nil || len(calls) != 8 {
+		t.Errorf("pairs: %d progress calls, %v", len(calls), err)
+	}
+}
+
 func TestPairsVisitError(t *testing.T) {
 	t.Parallel()
 	x := randCloud(rand.New(rand.NewPCG(1, 9)), 50, 2, 0, false)

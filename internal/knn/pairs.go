@@ -49,7 +49,7 @@ func (c *Cloud) Pairs(ctx context.Context, r float64, visit func(batch []Pair) e
 	bufs := make([][]float64, workers)
 	batches := make([][]Pair, workers)
 	nb := (c.n + rowBlock - 1) / rowBlock
-	return parallel(ctx, nb, func(w, b int) error {
+	return parallel(ctx, nb, c.progress, func(w, b int) error {
 		if bufs[w] == nil {
 			bufs[w] = make([]float64, rowBlock*colBlock)
 		}
