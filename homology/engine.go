@@ -461,6 +461,9 @@ func (it *cofaces) next() (simplex, bool, bool) {
 // filtration if it has the same diameter as s: the cofacet of largest
 // index among those of diameter s.d.
 func (e *engine) zeroCofacet(it *cofaces, s simplex, k int) (simplex, bool) {
+	if e.tri != nil {
+		return e.zeroCofacetDense(s, k)
+	}
 	it.set(s, k, false)
 	for {
 		c, _, ok := it.next()
@@ -471,6 +474,64 @@ func (e *engine) zeroCofacet(it *cofaces, s simplex, k int) (simplex, bool) {
 			return c, true
 		}
 	}
+}
+
+// zeroCofacetDense is zeroCofacet with O(1) distance lookups: it walks
+// the neighbours of one vertex in decreasing order and tests the others
+// only for neighbours close enough.
+func (e *engine) zeroCofacetDense(s simplex, k int) (simplex, bool) {
+	var w [maxVerts]int32
+	e.vertices(s.i, k, w[:k])
+	lead := 0
+	for q := 1; q < k; q++ {
+		if e.nbStart[w[q]+1]-e.nbStart[w[q]] < e.nbStart[w[lead]+1]-e.nbStart[w[lead]] {
+			lead = q
+		}
+	}
+	lo, hi := e.nbStart[w[lead]], e.nbStart[w[lead]+1]
+	idx, dist := e.nbIdx[lo:hi], e.nbDist[lo:hi]
+	tri := e.tri
+	for c, j := range idx {
+		if dist[c] > s.d {
+			continue
+		}
+		ok := true
+		for q := 0; q < k; q++ {
+			v := w[q]
+			if q == lead {
+				continue
+			}
+			if v == j {
+				ok = false
+				break
+			}
+			a, b := int(v), int(j)
+			if a < b {
+				a, b = b, a
+			}
+			if tri[a*(a-1)/2+b] > s.d {
+				ok = false
+				break
+			}
+		}
+		if !ok {
+			continue
+		}
+		var f [maxVerts]int32
+		q, p := 0, 0
+		for p < k && w[p] > j {
+			f[q] = w[p]
+			q, p = q+1, p+1
+		}
+		f[q] = j
+		q++
+		for p < k {
+			f[q] = w[p]
+			q, p = q+1, p+1
+		}
+		return simplex{s.d, e.index(f[:k+1])}, true
+	}
+	return simplex{}, false
 }
 
 // zeroFacet returns the latest facet of s (k vertices) in the filtration
