@@ -35,8 +35,7 @@ func (e *engine) run() ([][]Bar, error) {
 	e.stats.Edges = int64(len(e.edges))
 
 	e.startPhase("edges", 0, int64(len(e.edges)))
-	sortSimplices(e.edges, filtrationOrder)
-	if err := e.ctx.Err(); err != nil {
+	if err := parallelSort(e.ctx, e.edges, filtrationOrder); err != nil {
 		return nil, err
 	}
 	var columns []simplex
@@ -295,7 +294,9 @@ func (e *engine) assemble(prev []simplex, pm *pivotMap, d int, keep bool) (cols,
 		return nil, nil, err
 	}
 	e.stats.Apparent[d] += int64(n0 - len(cols))
-	sortSimplices(cols, reverseOrder)
+	if err := parallelSort(e.ctx, cols, reverseOrder); err != nil {
+		return nil, nil, err
+	}
 	return cols, all, nil
 }
 
@@ -344,8 +345,4 @@ func (e *engine) dropApparent(cands []simplex, k int) ([]simplex, error) {
 		}
 	}
 	return out, nil
-}
-
-func sortSimplices(s []simplex, order func(a, b simplex) int) {
-	slices.SortFunc(s, order)
 }
