@@ -108,6 +108,18 @@ func TestFixturesAgreeWithTorch(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
+			// Every node of the graph is an origin of exactly one stage.
+			count := map[string]int{}
+			for _, st := range stages {
+				for _, n := range st.Nodes {
+					count[n]++
+				}
+			}
+			for _, n := range m.Nodes {
+				if count[n.Name] != 1 {
+					t.Errorf("node %q (%s) is listed in %d stages, want 1", n.Name, n.OpType, count[n.Name])
+				}
+			}
 			if len(stages) != len(side.Stages) {
 				t.Fatalf("%d stages, reference has %d modules", len(stages), len(side.Stages))
 			}

@@ -49,7 +49,8 @@ type Stage struct {
 	Name string
 	// Nodes are the names of the ONNX nodes the stage came from, in graph
 	// order. Identity and Dropout nodes are listed with the stage that
-	// produced their input.
+	// produced their input; nodes that computed a constant (Constant,
+	// Transpose of a weight, shape arithmetic) with the stage using it.
 	Nodes []string
 	// W is the Out×In weight matrix of an affine stage; nil otherwise.
 	W *mat.Dense

@@ -7,6 +7,8 @@ package onnxload
 import (
 	"fmt"
 	"math"
+	"slices"
+	"sort"
 	"strings"
 
 	"gonum.org/v1/gonum/mat"
@@ -39,6 +41,9 @@ const batchDim = math.MinInt64
 // constant tensor, or the data flowing through the chain.
 type value struct {
 	konst *Tensor
+	// origin lists the nodes that computed a constant (Constant,
+	// Transpose, shape arithmetic); they join the stage that uses it.
+	origin []string
 	// For data: the trailing shape (all dims but the batch) and the
 	// index of the stage that produced it (-1 for the graph input).
 	shape []int64
@@ -130,6 +135,16 @@ func (m *Model) Stages(set *StageSettings) ([]Stage, error) {
 	if v := b.vals[out.Name]; v != b.cur {
 		return nil, &UnsupportedError{Where: fmt.Sprintf("output %q", out.Name), Reason: "the first graph output is not the end of the chain of stages"}
 	}
+	// List each stage's nodes once, in graph order.
+	pos := make(map[string]int, len(m.Nodes))
+	for i, n := range m.Nodes {
+		pos[nodeLabel(n, i)] = i
+	}
+	for k := range b.stages {
+		nodes := b.stages[k].Nodes
+		sort.SliceStable(nodes, func(a, c int) bool { return pos[nodes[a]] < pos[nodes[c]] })
+		b.stages[k].Nodes = slices.Compact(nodes)
+	}
 	stages := b.stages
 	if set.FuseAffine {
 		var err error
@@ -209,6 +224,17 @@ func (b *builder) setOutput(n *Node, v *value) {
 	}
 }
 
+// constOrigins returns the nodes behind the constant inputs of n.
+func (b *builder) constOrigins(n *Node) []string {
+	var o []string
+	for _, name := range n.Inputs {
+		if v := b.vals[name]; v != nil && v.konst != nil {
+			o = append(o, v.origin...)
+		}
+	}
+	return o
+}
+
 // checkSize returns a LimitError if a rows×cols weight matrix would
 // exceed MaxElements.
 func (b *builder) checkSize(n *Node, i int, rows, cols int) error {
@@ -220,7 +246,7 @@ func (b *builder) checkSize(n *Node, i int, rows, cols int) error {
 
 // push appends a stage fed by the current data value.
 func (b *builder) push(n *Node, i int, s Stage, shape []int64) {
-	s.Nodes = append(b.pending, nodeLabel(n, i))
+	s.Nodes = append(append(b.pending, b.constOrigins(n)...), nodeLabel(n, i))
 	s.Name = stageName([]string{nodeLabel(n, i)})
 	b.pending = nil
 	b.stages = append(b.stages, s)
@@ -267,7 +293,7 @@ func (b *builder) node(n *Node, i int) error {
 		if err != nil {
 			return b.unsupported(n, i, "%v", err)
 		}
-		b.setOutput(n, &value{konst: t})
+		b.setOutput(n, &value{konst: t, origin: []string{nodeLabel(n, i)}})
 		return nil
 	}
 	// Every non-optional input must be known by now (validation has
@@ -316,7 +342,7 @@ func (b *builder) node(n *Node, i int) error {
 			end = start
 		}
 		vals := append([]int64(nil), full[start:end]...)
-		b.setOutput(n, &value{konst: &Tensor{Name: n.Outputs[0], DataType: Int64, Dims: []int64{int64(len(vals))}, Int64: vals}})
+		b.setOutput(n, &value{konst: &Tensor{Name: n.Outputs[0], DataType: Int64, Dims: []int64{int64(len(vals))}, Int64: vals}, origin: []string{nodeLabel(n, i)}})
 		return nil
 	case "Identity", "Dropout":
 		if n.OpType == "Dropout" {
@@ -332,9 +358,9 @@ func (b *builder) node(n *Node, i int) error {
 		}
 		if data.stage >= 0 {
 			s := &b.stages[data.stage]
-			s.Nodes = append(s.Nodes, nodeLabel(n, i))
+			s.Nodes = append(append(s.Nodes, b.constOrigins(n)...), nodeLabel(n, i))
 		} else {
-			b.pending = append(b.pending, nodeLabel(n, i))
+			b.pending = append(append(b.pending, b.constOrigins(n)...), nodeLabel(n, i))
 		}
 		b.setOutput(n, data)
 		return nil
@@ -440,7 +466,7 @@ func (b *builder) node(n *Node, i int) error {
 			for j := range s.B {
 				s.B[j] += bias[j]
 			}
-			s.Nodes = append(s.Nodes, nodeLabel(n, i))
+			s.Nodes = append(append(s.Nodes, b.constOrigins(n)...), nodeLabel(n, i))
 			b.matmul[k] = false
 			b.setOutput(n, data)
 			return nil
@@ -681,7 +707,7 @@ func (b *builder) constNode(n *Node, i int) error {
 	t := in.konst
 	switch n.OpType {
 	case "Identity", "Dropout":
-		b.setOutput(n, in)
+		b.setOutput(n, &value{konst: t, origin: append(b.constOrigins(n), nodeLabel(n, i))})
 		return nil
 	case "Transpose":
 		if len(t.Dims) != 2 || !t.DataType.isFloat() {
@@ -689,7 +715,7 @@ func (b *builder) constNode(n *Node, i int) error {
 		}
 		if a := n.Attr("perm"); a != nil && !(len(a.Ints) == 2 && a.Ints[0] == 1 && a.Ints[1] == 0) {
 			if len(a.Ints) == 2 && a.Ints[0] == 0 && a.Ints[1] == 1 {
-				b.setOutput(n, in)
+				b.setOutput(n, &value{konst: t, origin: append(b.constOrigins(n), nodeLabel(n, i))})
 				return nil
 			}
 			return b.malformed(n, i, "perm %v is not a permutation of 2 axes", a.Ints)
@@ -703,14 +729,14 @@ func (b *builder) constNode(n *Node, i int) error {
 		for k := 0; k < c && r > 0; k++ {
 			out.Float64 = append(out.Float64, d.RawRowView(k)...)
 		}
-		b.setOutput(n, &value{konst: out})
+		b.setOutput(n, &value{konst: out, origin: append(b.constOrigins(n), nodeLabel(n, i))})
 		return nil
 	case "Gather", "Unsqueeze", "Concat":
 		out, err := foldShapeOp(n, b, i)
 		if err != nil {
 			return err
 		}
-		b.setOutput(n, &value{konst: out})
+		b.setOutput(n, &value{konst: out, origin: append(b.constOrigins(n), nodeLabel(n, i))})
 		return nil
 	}
 	return b.unsupported(n, i, "%s of constants is not supported (only Identity, Dropout, Transpose, Gather, Unsqueeze and Concat are folded)", n.OpType)
