@@ -295,6 +295,11 @@ func TestBadInput(t *testing.T) {
 	if _, err := RipsDistances(ctx, s, &Settings{MaxDim: 3}); !errors.Is(err, ErrOverflow) {
 		t.Errorf("overflow: %v", err)
 	}
+	// A billion vertices are refused before any allocation.
+	var me *MemoryError
+	if _, err := RipsDistances(ctx, &Sparse{N: 1 << 30}, nil); !errors.As(err, &me) {
+		t.Errorf("huge sparse: %v", err)
+	}
 	// The same vertex count is fine in dimension 1.
 	if b, err := RipsDistances(ctx, s, &Settings{MaxDim: 1}); err != nil || len(b.Bars[0]) != 200000 {
 		t.Errorf("sparse 200000 points: %v", err)

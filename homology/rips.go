@@ -157,6 +157,11 @@ func RipsDistances(ctx context.Context, d Distances, set *Settings) (*Barcode, e
 }
 
 func newEngine(ctx context.Context, n int, r resolved) (*engine, error) {
+	// Per-vertex tables: binomials, neighbour list offsets, union–find
+	// and scratch, about 100 bytes.
+	if est := int64(n) * 100; est > r.maxBytes {
+		return nil, &MemoryError{Estimate: est, Budget: r.maxBytes, Points: n, What: "the per-vertex tables"}
+	}
 	e := &engine{ctx: ctx, n: n, maxDim: r.maxDim, p: int64(r.p), budget: r.maxBytes, progress: r.progress}
 	if err := e.makeBinomials(); err != nil {
 		return nil, err
@@ -202,6 +207,9 @@ func ripsSparse(ctx context.Context, s *Sparse, r resolved) (*Barcode, error) {
 	}
 	// Enclosing radius: +Inf unless some vertex is joined to all others.
 	n := s.N
+	if est := int64(n) * 100; est > r.maxBytes {
+		return nil, &MemoryError{Estimate: est, Budget: r.maxBytes, Points: n, What: "the per-vertex tables"}
+	}
 	rowMax := make([]float64, n)
 	deg := make([]int, n)
 	maxFinite := 0.0
