@@ -21,6 +21,9 @@ type entryHeap struct {
 func (h *entryHeap) reset() { h.a = h.a[:0] }
 
 func (h *entryHeap) push(x entry) {
+	if len(h.a) == cap(h.a) {
+		h.grow()
+	}
 	h.a = append(h.a, x)
 	a := h.a
 	i := len(a) - 1
@@ -33,6 +36,15 @@ func (h *entryHeap) push(x entry) {
 		i = p
 	}
 	a[i] = x
+}
+
+// grow doubles the capacity. append grows large slices by only 1.25×,
+// which for a working coboundary of many millions of entries spends
+// more time copying than sifting.
+func (h *entryHeap) grow() {
+	a := make([]entry, len(h.a), max(2*cap(h.a), 1024))
+	copy(a, h.a)
+	h.a = a
 }
 
 // heapify restores the heap order after entries were appended to h.a.
