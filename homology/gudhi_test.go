@@ -43,7 +43,7 @@ type gudhiCase struct {
 const gudhiTol = 1e-9
 
 // gudhiLoadCloud reads a fixture cloud with the project's CSV reader.
-func gudhiLoadCloud(t *testing.T, file string) *mat.Dense {
+func gudhiLoadCloud(t testing.TB, file string) *mat.Dense {
 	t.Helper()
 	f, err := os.Open(filepath.Join("..", "testdata", "homology", file))
 	if err != nil {
