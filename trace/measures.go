@@ -15,17 +15,57 @@ import (
 	"crease.dev/crease/relu"
 )
 
+// measureOverlap computes the class-overlap measures of one stage; it
+// is set by overlap_measures.go and is a no-op until then.
+var measureOverlap = func(ctx context.Context, st *Stage, out *mat.Dense, labels []int, rs Settings, stage, class func(c int, name string, v float64)) error {
+	return nil
+}
+
 // stageMeasures fills the Glued counts and Measures of stage st from
 // its input in and output out. It returns the time spent in collapse and
 // in overlap measures.
+// For the input stage in and ms are nil and only overlap measures are
+// computed.
 func stageMeasures(ctx context.Context, st *Stage, in, out *mat.Dense, ms *onnxload.Stage, labels []int, rs Settings) (drelu, doverlap time.Duration, err error) {
-	t := time.Now()
 	m := map[string]float64{}
+	cm := make([]map[string]float64, len(st.Classes))
 	put := func(name string, v float64) {
 		if !math.IsNaN(v) && !math.IsInf(v, 0) {
 			m[name] = v
 		}
 	}
+	defer func() {
+		if err != nil {
+			return
+		}
+		if len(m) > 0 {
+			st.Measures = m
+		}
+		for c, x := range cm {
+			if len(x) > 0 {
+				st.Classes[c].Measures = x
+			}
+		}
+	}()
+	t := time.Now()
+	err = measureOverlap(ctx, st, out, labels, rs, func(_ int, name string, v float64) { put(name, v) },
+		func(c int, name string, v float64) {
+			if c < 0 || c >= len(cm) || math.IsNaN(v) || math.IsInf(v, 0) {
+				return
+			}
+			if cm[c] == nil {
+				cm[c] = map[string]float64{}
+			}
+			cm[c][name] = v
+		})
+	if err != nil {
+		return 0, 0, err
+	}
+	doverlap = time.Since(t)
+	if ms == nil {
+		return 0, doverlap, nil
+	}
+	t = time.Now()
 	g, err := relu.Glue(ctx, in, out, labels, &relu.GlueSettings{Tau: rs.GlueTau, Examples: -1})
 	if err != nil {
 		return 0, 0, err
@@ -68,11 +108,7 @@ func stageMeasures(ctx context.Context, st *Stage, in, out *mat.Dense, ms *onnxl
 		put("fold.shared_patterns", float64(f.SharedPatterns))
 		put("fold.shared_points", float64(f.SharedPoints))
 	}
-	drelu = time.Since(t)
-	if len(m) > 0 {
-		st.Measures = m
-	}
-	return drelu, 0, nil
+	return time.Since(t), doverlap, nil
 }
 
 func b2f(b bool) float64 {

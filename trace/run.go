@@ -134,6 +134,9 @@ func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings)
 			st.Nodes = append([]string(nil), ms.Nodes...)
 		}
 		st.Whole = Group{Count: n}
+		if rs.SkipWhole {
+			st.Whole.Betti, st.Whole.Bars = []int{}, [][]Bar{}
+		}
 		st.Classes = make([]Group, len(s.Classes))
 		for c := range s.Classes {
 			st.Classes[c] = Group{Label: s.Classes[c], Count: counts[c]}
@@ -142,15 +145,13 @@ func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings)
 
 	var tasks []task
 	for i := range clouds {
-		if rs.Whole {
+		if !rs.SkipWhole {
 			tasks = append(tasks, task{stage: i, group: -1})
 		}
 		for c := range s.Classes {
 			tasks = append(tasks, task{stage: i, group: c})
 		}
-		if i > 0 {
-			tasks = append(tasks, task{stage: i, measures: true})
-		}
+		tasks = append(tasks, task{stage: i, measures: true})
 	}
 	workers := rs.Workers
 	if workers <= 0 {
@@ -183,7 +184,11 @@ func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings)
 				switch {
 				case tk.measures:
 					part = "measures"
-					dr, do, err = stageMeasures(ctx, st, clouds[tk.stage-1], clouds[tk.stage], &stages[tk.stage-1], s.Labels, rs)
+					if tk.stage == 0 {
+						dr, do, err = stageMeasures(ctx, st, nil, clouds[0], nil, s.Labels, rs)
+					} else {
+						dr, do, err = stageMeasures(ctx, st, clouds[tk.stage-1], clouds[tk.stage], &stages[tk.stage-1], s.Labels, rs)
+					}
 				case tk.group < 0:
 					part = "whole"
 					t := time.Now()

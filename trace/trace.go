@@ -257,6 +257,8 @@ const (
 	DefaultK = 8
 	// DefaultHops is the hop-count scale of ScaleHops.
 	DefaultHops = 2
+	// DefaultOverlapK is the k of the k-NN agreement, overlap.DefaultK.
+	DefaultOverlapK = 5
 	// DefaultGlueTau is relu's default gluing threshold.
 	DefaultGlueTau = 0.5
 )
@@ -296,12 +298,18 @@ type Settings struct {
 	// neighbour distance and its output distance is at most GlueTau ×
 	// the output's. Zero means DefaultGlueTau.
 	GlueTau float64 `json:"glue_tau"`
+	// OverlapK is the neighbour count of the k-NN agreement; zero means
+	// DefaultOverlapK.
+	OverlapK int `json:"overlap_k"`
+	// SkipProbe leaves out the linear probe, the slowest overlap
+	// measure. The probe's folds come from overlap.Folds with Seed.
+	SkipProbe bool `json:"skip_probe"`
 	// Fuse makes RunFile fuse consecutive affine stages into one (the
 	// layer view of onnxload.StageSettings.FuseAffine).
 	Fuse bool `json:"fuse"`
-	// Whole computes the whole sample's homology as well as each
-	// class's; DefaultSettings sets it.
-	Whole bool `json:"whole"`
+	// SkipWhole leaves out the whole sample's homology (the costliest
+	// part); the whole sample's Betti and Bars are then empty arrays.
+	SkipWhole bool `json:"skip_whole"`
 	// Workers bounds the parallel tasks; zero means GOMAXPROCS. Not
 	// recorded in the trace (it does not change the result).
 	Workers int `json:"-"`
@@ -313,9 +321,9 @@ type Settings struct {
 }
 
 // DefaultSettings returns the settings used for a nil *Settings: H0 and
-// H1, relative scale 0.1, per-class cap DefaultCap, whole sample on.
+// H1, relative scale 0.1, per-class cap DefaultCap.
 func DefaultSettings() *Settings {
-	return &Settings{MaxDim: 1, Whole: true}
+	return &Settings{MaxDim: 1}
 }
 
 // Progress reports how far a run has got.
@@ -348,6 +356,9 @@ func (s Settings) resolve() (Settings, error) {
 	}
 	if s.GlueTau == 0 {
 		s.GlueTau = DefaultGlueTau
+	}
+	if s.OverlapK == 0 {
+		s.OverlapK = DefaultOverlapK
 	}
 	if s.Cap == 0 {
 		s.Cap = DefaultCap

@@ -58,7 +58,7 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 		return fmt.Errorf("usage: want MODEL and DATA arguments, got %d", len(pos))
 	}
 	set := &trace.Settings{MaxDim: *maxDim, Scale: *scale, Persistence: *pers, K: *k, Hops: *hops,
-		Cap: *capN, Seed: *seed, Fuse: *fuse, Whole: *whole, Timing: *timing}
+		Cap: *capN, Seed: *seed, Fuse: *fuse, SkipWhole: !*whole, Timing: *timing}
 	switch *metric {
 	case "euclidean":
 	case "knn":
