@@ -146,19 +146,22 @@ func TestCancel(t *testing.T) {
 func TestPairsAgainstBruteForce(t *testing.T) {
 	t.Parallel()
 	for _, test := range []struct {
-		name string
-		n, d int
-		r    float64
-		grid bool
+		name   string
+		n, d   int
+		r      float64
+		offset float64
+		grid   bool
 	}{
-		{"zero-radius-duplicates", 400, 2, 0, true},
-		{"grid-unit", 1300, 3, 1, true},
-		{"gauss", 1200, 4, 1.5, false},
-		{"everything", 300, 2, 100, false},
+		{"zero-radius-duplicates", 400, 2, 0, 0, true},
+		{"grid-unit", 1300, 3, 1, 0, true},
+		{"grid-offset", 500, 3, 1, 1e7, true},
+		{"gauss", 1200, 4, 1.5, 0, false},
+		{"gauss-offset", 800, 4, 1, -3e6, false},
+		{"everything", 300, 2, 100, 0, false},
 	} {
 		t.Run(test.name, func(t *testing.T) {
 			t.Parallel()
-			x := randCloud(rand.New(rand.NewPCG(3, uint64(test.n))), test.n, test.d, 0, test.grid)
+			x := randCloud(rand.New(rand.NewPCG(3, uint64(test.n))), test.n, test.d, test.offset, test.grid)
 			var mu sync.Mutex
 			got := map[[2]int]float64{}
 			err := Pairs(context.Background(), x, test.r, func(b []Pair) error {
