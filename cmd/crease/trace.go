@@ -42,6 +42,8 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 	pers := fs.Float64("persistence", trace.DefaultPersistence, "persistence rule: count bars at least this fraction of the diameter long")
 	k := fs.Int("k", trace.DefaultK, "hops rule: neighbours in the k-NN graph")
 	hops := fs.Int("hops", trace.DefaultHops, "hops rule: read Betti numbers at this hop count")
+	glueTau := fs.Float64("glue-tau", trace.DefaultGlueTau, "a pair is glued when its input distance exceeds this × the input's median nearest-neighbour distance and its output distance is at most this × the output's")
+	skipProbe := fs.Bool("skip-probe", false, "leave out the linear probe (the slowest measure)")
 	capN := fs.Int("per-class-cap", trace.DefaultCap, "at most this many points per class (seeded stratified subsample); negative means all")
 	seed := fs.Uint64("seed", 1, "seed of the subsample")
 	fuse := fs.Bool("fuse", false, "fuse consecutive affine stages (the layer view)")
@@ -58,7 +60,7 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 		return fmt.Errorf("usage: want MODEL and DATA arguments, got %d", len(pos))
 	}
 	set := &trace.Settings{MaxDim: *maxDim, Scale: *scale, Persistence: *pers, K: *k, Hops: *hops,
-		Cap: *capN, Seed: *seed, Fuse: *fuse, SkipWhole: !*whole, Timing: *timing}
+		Cap: *capN, Seed: *seed, Fuse: *fuse, SkipWhole: !*whole, GlueTau: *glueTau, SkipProbe: *skipProbe, Timing: *timing}
 	switch *metric {
 	case "euclidean":
 	case "knn":
