@@ -102,3 +102,19 @@ func ExampleDistort() {
 	// Output:
 	// 2 2 2 4
 }
+
+func ExampleAffineContext() {
+	// A rotation by 90° is injective and perfectly conditioned.
+	w := mat.NewDense(2, 2, []float64{0, -1, 1, 0})
+	in := mat.NewDense(3, 2, []float64{0, 0, 1, 0, 0, 2})
+	var out mat.Dense
+	out.Mul(in, w.T())
+	r, err := relu.AffineContext(context.Background(), w, in, &out, nil)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(r.Rank, r.Kernel, r.Cond, r.Injective, r.Settings.Identify)
+	// Output:
+	// 2 0 1 true 1e-09
+}

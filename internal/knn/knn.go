@@ -43,6 +43,7 @@ type Error struct {
 	Reason   string
 }
 
+// Error implements the error interface.
 func (e *Error) Error() string {
 	switch {
 	case e.Row >= 0 && e.Col >= 0:
