@@ -15,12 +15,6 @@ import (
 	"crease.dev/crease/relu"
 )
 
-// measureOverlap computes the class-overlap measures of one stage; it
-// is set by overlap_measures.go and is a no-op until then.
-var measureOverlap = func(ctx context.Context, st *Stage, out *mat.Dense, labels []int, rs Settings, stage, class func(c int, name string, v float64)) error {
-	return nil
-}
-
 // stageMeasures fills the Glued counts and Measures of stage st from
 // its input in and output out. It returns the time spent in collapse and
 // in overlap measures.
@@ -48,7 +42,7 @@ func stageMeasures(ctx context.Context, st *Stage, in, out *mat.Dense, ms *onnxl
 		}
 	}()
 	t := time.Now()
-	err = measureOverlap(ctx, st, out, labels, rs, func(_ int, name string, v float64) { put(name, v) },
+	err = overlapMeasures(ctx, st, out, labels, rs, func(_ int, name string, v float64) { put(name, v) },
 		func(c int, name string, v float64) {
 			if c < 0 || c >= len(cm) || math.IsNaN(v) || math.IsInf(v, 0) {
 				return
