@@ -35,6 +35,27 @@ func (f *fakeTB) Errorf(format string, args ...any) {
 // the projection makes it a segment, β = (1, 0), and the projection
 // glues the rings together.
 func ringTrace(t *testing.T) *trace.Trace {
+	return ringTraceStages(t, []onnxload.Stage{
+		{Kind: onnxload.Affine, In: 2, Out: 2, W: mat.NewDense(2, 2, []float64{1, 0, 0, 1}), B: []float64{0, 0}},
+		{Kind: onnxload.ReLU, In: 2, Out: 2},
+		{Kind: onnxload.Affine, In: 2, Out: 2, W: mat.NewDense(2, 2, []float64{1, 0, 0, 0}), B: []float64{0, 0}},
+	})
+}
+
+// softmaxTrace classifies the rings by the logits (y − c, c − y) and a
+// softmax: with c = 5.5 every point of "high" (y ≥ 7) and "low" (y ≤ 4)
+// has its own class's probability strictly largest, which is the
+// interior of its own vertex's Voronoi cell; with c = 2.5 the points of
+// "low" above y = 2.5 fall into the cell of "high".
+func softmaxTrace(t *testing.T, c float64) *trace.Trace {
+	return ringTraceStages(t, []onnxload.Stage{
+		// Classes are ordered lexically: "high" is 0, "low" is 1.
+		{Kind: onnxload.Affine, In: 2, Out: 2, W: mat.NewDense(2, 2, []float64{0, 1, 0, -1}), B: []float64{-c, c}},
+		{Kind: onnxload.Softmax, In: 2, Out: 2},
+	})
+}
+
+func ringTraceStages(t *testing.T, stages []onnxload.Stage) *trace.Trace {
 	const m = 24
 	x := mat.NewDense(2*m, 2, nil)
 	labels := make([]string, 2*m)
@@ -54,11 +75,6 @@ func ringTrace(t *testing.T) *trace.Trace {
 	if err != nil {
 		t.Fatal(err)
 	}
-	stages := []onnxload.Stage{
-		{Kind: onnxload.Affine, In: 2, Out: 2, W: mat.NewDense(2, 2, []float64{1, 0, 0, 1}), B: []float64{0, 0}},
-		{Kind: onnxload.ReLU, In: 2, Out: 2},
-		{Kind: onnxload.Affine, In: 2, Out: 2, W: mat.NewDense(2, 2, []float64{1, 0, 0, 0}), B: []float64{0, 0}},
-	}
 	set := trace.DefaultSettings()
 	set.Scale = 0.2
 	tr, err := trace.Run(context.Background(), stages, s, set)
@@ -70,6 +86,7 @@ func ringTrace(t *testing.T) *trace.Trace {
 
 func TestChecks(t *testing.T) {
 	tr := ringTrace(t)
+	good, bad := softmaxTrace(t, 5.5), softmaxTrace(t, 2.5)
 	for _, tc := range []struct {
 		name  string
 		check func(testing.TB) bool
@@ -84,6 +101,9 @@ func TestChecks(t *testing.T) {
 		{"no glue before 4", func(tb testing.TB) bool { return tracecheck.NoCrossGlueBefore(tb, tr, 4) }, false,
 			[]string{"stage 3 (affine) glues 46 pairs", "glued.cross: 0:input=- 1:affine=0 2:relu=0 3:affine=46"}},
 		{"no softmax", func(tb testing.TB) bool { return tracecheck.SoftmaxSeparates(tb, tr) }, false, []string{"no softmax stage"}},
+		{"softmax separates", func(tb testing.TB) bool { return tracecheck.SoftmaxSeparates(tb, good) }, true, nil},
+		{"softmax mixes", func(tb testing.TB) bool { return tracecheck.SoftmaxSeparates(tb, bad) }, false,
+			[]string{`class "low"`, "inside its own Voronoi cell at stage 2 (softmax)", "voronoi.inside: 0:input=- 1:affine=- 2:softmax=0.2917"}}, // 7 of 24: the angles 225°..315°, where sin θ < −1/2
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			f := &fakeTB{TB: t}
