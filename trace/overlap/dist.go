@@ -13,7 +13,8 @@ import (
 )
 
 // blockBytes bounds the distance block held at one time (rows × n × 8).
-const blockBytes = 32 << 20
+// It is a variable so that tests can force many small blocks.
+var blockBytes = 32 << 20
 
 // blockRows is the number of rows per distance block for n points.
 func blockRows(n int) int {

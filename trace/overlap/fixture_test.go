@@ -225,3 +225,39 @@ func TestFixtureVoronoi(t *testing.T) {
 		}
 	}
 }
+
+// TestBlocking checks that the blocked distance passes give the same
+// silhouette and margin with one-row blocks as with one block, and the
+// scikit-learn value.
+func TestBlocking(t *testing.T) {
+	f := loadFixture(t, "blobs")
+	x := f.matrix()
+	whole, err := Silhouette(context.Background(), x, f.Labels)
+	if err != nil {
+		t.Fatal(err)
+	}
+	mw, err := Margin(context.Background(), x, f.Labels)
+	if err != nil {
+		t.Fatal(err)
+	}
+	saved := blockBytes
+	blockBytes = 8 * len(f.Labels) * 7 // 7 rows per block
+	defer func() { blockBytes = saved }()
+	if got := blockRows(len(f.Labels)); got != 7 {
+		t.Fatalf("block of %d rows, want 7", got)
+	}
+	blocked, err := Silhouette(context.Background(), x, f.Labels)
+	if err != nil {
+		t.Fatal(err)
+	}
+	mb, err := Margin(context.Background(), x, f.Labels)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if blocked.Score != whole.Score || !close(blocked.Score, f.Silhouette, tol) {
+		t.Errorf("blocked silhouette %v, whole %v, scikit-learn %v", blocked.Score, whole.Score, f.Silhouette)
+	}
+	if *mb != *mw {
+		t.Errorf("blocked margin %+v, whole %+v", *mb, *mw)
+	}
+}
