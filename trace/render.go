@@ -1,0 +1,389 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package trace
+
+import (
+	"bytes"
+	"fmt"
+	"image/color"
+	"io"
+	"math"
+	"sort"
+	"strconv"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+	"gonum.org/v1/plot/vg/vgsvg"
+)
+
+// Plot sizes of the SVG renderings.
+const (
+	plotWidth  = 6 * vg.Inch
+	plotHeight = 3.2 * vg.Inch
+)
+
+// palette holds the line colours of classes, in class order; the whole
+// sample is drawn in grey.
+var palette = []color.Color{
+	color.RGBA{R: 0x1f, G: 0x77, B: 0xb4, A: 0xff},
+	color.RGBA{R: 0xd6, G: 0x27, B: 0x28, A: 0xff},
+	color.RGBA{R: 0x2c, G: 0xa0, B: 0x2c, A: 0xff},
+	color.RGBA{R: 0x94, G: 0x67, B: 0xbd, A: 0xff},
+	color.RGBA{R: 0xff, G: 0x7f, B: 0x0e, A: 0xff},
+	color.RGBA{R: 0x8c, G: 0x56, B: 0x4b, A: 0xff},
+	color.RGBA{R: 0xe3, G: 0x77, B: 0xc2, A: 0xff},
+	color.RGBA{R: 0x17, G: 0xbe, B: 0xcf, A: 0xff},
+}
+
+// shapes are the point markers of series, in order.
+var shapes = []draw.GlyphDrawer{
+	draw.CircleGlyph{}, draw.SquareGlyph{}, draw.TriangleGlyph{},
+	draw.PlusGlyph{}, draw.CrossGlyph{}, draw.RingGlyph{}, draw.BoxGlyph{}, draw.PyramidGlyph{},
+}
+
+var grey = color.RGBA{R: 0x70, G: 0x70, B: 0x70, A: 0xff}
+
+func classColor(c int) color.Color { return palette[c%len(palette)] }
+
+// stageTicks labels the x axis with stage index and kind.
+type stageTicks []*Stage
+
+func (s stageTicks) Ticks(min, max float64) []plot.Tick {
+	var out []plot.Tick
+	for _, st := range s {
+		v := float64(st.Index)
+		if v < min-0.5 || v > max+0.5 {
+			continue
+		}
+		out = append(out, plot.Tick{Value: v, Label: strconv.Itoa(st.Index) + "\n" + st.Kind})
+	}
+	return out
+}
+
+func (t *Trace) stagePtrs() []*Stage {
+	out := make([]*Stage, len(t.Stages))
+	for i := range t.Stages {
+		out[i] = &t.Stages[i]
+	}
+	return out
+}
+
+func (t *Trace) newStagePlot(title, ylabel string) *plot.Plot {
+	p := plot.New()
+	p.Title.Text = title
+	p.X.Label.Text = "stage"
+	p.Y.Label.Text = ylabel
+	p.X.Tick.Marker = stageTicks(t.stagePtrs())
+	p.X.Min, p.X.Max = -0.3, float64(len(t.Stages)-1)+0.3
+	p.Legend.Top = true
+	p.Legend.Left = false
+	p.Add(plotter.NewGrid())
+	return p
+}
+
+// addSeries adds a line with point markers to p.
+func addSeries(p *plot.Plot, name string, xy plotter.XYs, c color.Color, dashed bool, shape int) error {
+	if len(xy) == 0 {
+		return nil
+	}
+	l, s, err := plotter.NewLinePoints(xy)
+	if err != nil {
+		return err
+	}
+	l.Color = c
+	l.Width = vg.Points(1.5)
+	if dashed {
+		l.Dashes = []vg.Length{vg.Points(4), vg.Points(3)}
+	}
+	s.Color = c
+	s.Shape = shapes[shape%len(shapes)]
+	s.Radius = vg.Points(2.5)
+	p.Add(l, s)
+	p.Legend.Add(name, l, s)
+	return nil
+}
+
+// writePlot renders p as SVG to w.
+func writePlot(w io.Writer, p *plot.Plot, width, height vg.Length) error {
+	c := vgsvg.New(width, height)
+	p.Draw(draw.New(c))
+	_, err := c.WriteTo(w)
+	return err
+}
+
+// WriteBettiSVG writes an SVG line plot of the Betti number βdim of
+// every class (solid, in class colours) and of the whole sample (dashed
+// grey, when recorded) across the stages. It returns an error if dim is
+// outside 0..Settings.MaxDim or the trace has no stages.
+func (t *Trace) WriteBettiSVG(w io.Writer, dim int) error {
+	if len(t.Stages) == 0 {
+		return fmt.Errorf("trace: render: the trace has no stages")
+	}
+	if dim < 0 || dim > t.Settings.MaxDim {
+		return fmt.Errorf("trace: render: dimension %d outside 0..%d", dim, t.Settings.MaxDim)
+	}
+	p := t.newStagePlot(fmt.Sprintf("β%s per class across stages", subscript(dim)), fmt.Sprintf("β%s", subscript(dim)))
+	hi := 1.0
+	for c, name := range t.Sample.Classes {
+		var xy plotter.XYs
+		for i := range t.Stages {
+			if c < len(t.Stages[i].Classes) {
+				if b := t.Stages[i].Classes[c].Betti; dim < len(b) {
+					xy = append(xy, plotter.XY{X: float64(i), Y: float64(b[dim])})
+					hi = math.Max(hi, float64(b[dim]))
+				}
+			}
+		}
+		if err := addSeries(p, name, xy, classColor(c), false, c); err != nil {
+			return err
+		}
+	}
+	var whole plotter.XYs
+	for i := range t.Stages {
+		if b := t.Stages[i].Whole.Betti; dim < len(b) {
+			whole = append(whole, plotter.XY{X: float64(i), Y: float64(b[dim])})
+			hi = math.Max(hi, float64(b[dim]))
+		}
+	}
+	if err := addSeries(p, "whole sample", whole, grey, true, len(t.Sample.Classes)); err != nil {
+		return err
+	}
+	p.Y.Min, p.Y.Max = 0, hi*1.1+0.5
+	p.Y.Tick.Marker = intTicks{}
+	return writePlot(w, p, plotWidth, plotHeight)
+}
+
+// intTicks puts ticks on integers only.
+type intTicks struct{}
+
+func (intTicks) Ticks(min, max float64) []plot.Tick {
+	step := math.Max(1, math.Ceil((max-min)/8))
+	var out []plot.Tick
+	for v := math.Ceil(min); v <= max; v += step {
+		out = append(out, plot.Tick{Value: v, Label: strconv.Itoa(int(v))})
+	}
+	return out
+}
+
+// WriteCollapseSVG writes an SVG plot of the collapse measures across the
+// stages after the input: the pairs of points glued within a class and
+// across classes (log scale, plotted as count + 1) and, on a second axis
+// set below, the fractions of points that ReLU-type stages leave
+// untouched, send to a face, or send to the origin (fold.untouched,
+// fold.face, fold.origin). It returns an error if the trace has fewer
+// than two stages.
+func (t *Trace) WriteCollapseSVG(w io.Writer) error {
+	if len(t.Stages) < 2 {
+		return fmt.Errorf("trace: render: the trace has no stage after the input")
+	}
+	top := t.newStagePlot("Pairs glued by each stage", "pairs + 1 (log)")
+	top.Y.Scale = plot.LogScale{}
+	top.Y.Tick.Marker = plot.LogTicks{Prec: -1}
+	var within, cross plotter.XYs
+	for i := range t.Stages {
+		if g := t.Stages[i].Glued; g != nil {
+			within = append(within, plotter.XY{X: float64(i), Y: float64(g.Within) + 1})
+			cross = append(cross, plotter.XY{X: float64(i), Y: float64(g.Cross) + 1})
+		}
+	}
+	if err := addSeries(top, "within a class", within, palette[0], false, 0); err != nil {
+		return err
+	}
+	if err := addSeries(top, "across classes", cross, palette[1], false, 1); err != nil {
+		return err
+	}
+	top.Y.Min = 1
+	hi := 10.0
+	for _, v := range append(within, cross...) {
+		hi = math.Max(hi, v.Y*2)
+	}
+	top.Y.Max = hi
+
+	bottom := t.newStagePlot("What each ReLU-type stage does to the points", "fraction of points")
+	names := []struct{ key, label string }{
+		{"fold.untouched", "untouched"},
+		{"fold.face", "sent to a face"},
+		{"fold.origin", "sent to the origin"},
+	}
+	any := false
+	for k, nm := range names {
+		var xy plotter.XYs
+		for i := range t.Stages {
+			if v, ok := t.Stages[i].Measures[nm.key]; ok {
+				xy = append(xy, plotter.XY{X: float64(i), Y: v})
+			}
+		}
+		any = any || len(xy) > 0
+		if err := addSeries(bottom, nm.label, xy, palette[k+2], false, k+2); err != nil {
+			return err
+		}
+	}
+	bottom.Y.Min, bottom.Y.Max = 0, 1.05
+	if !any {
+		bottom.Title.Text += " (no ReLU-type stage)"
+	}
+
+	c := vgsvg.New(plotWidth, 2*plotHeight)
+	dc := draw.New(c)
+	tiles := draw.Tiles{Rows: 2, Cols: 1, PadY: vg.Points(6)}
+	plots := [][]*plot.Plot{{top}, {bottom}}
+	canvases := plot.Align(plots, tiles, dc)
+	top.Draw(canvases[0][0])
+	bottom.Draw(canvases[1][0])
+	_, err := c.WriteTo(w)
+	return err
+}
+
+// WriteBarcodeSVG writes an SVG barcode of one group at stage i: class
+// names a class, "" the whole sample. Each bar is a horizontal segment
+// from birth to death, grouped by dimension (H0 at the top); bars alive
+// at the threshold are drawn to the threshold and ended with an arrow
+// head; a vertical line marks the scale at which the Betti numbers were
+// read. It returns an error for an unknown stage or class or a group
+// with no bars.
+func (t *Trace) WriteBarcodeSVG(w io.Writer, i int, class string) error {
+	st := t.Stage(i)
+	if st == nil {
+		return fmt.Errorf("trace: render: no stage %d (the trace has %d)", i, len(t.Stages))
+	}
+	g := &st.Whole
+	name := "whole sample"
+	if class != "" {
+		g = st.Group(class)
+		if g == nil {
+			return fmt.Errorf("trace: render: stage %d has no class %q", i, class)
+		}
+		name = "class " + class
+	}
+	if len(g.Bars) == 0 {
+		return fmt.Errorf("trace: render: stage %d, %s: no bars recorded", i, name)
+	}
+	p := plot.New()
+	p.Title.Text = fmt.Sprintf("Barcode, stage %d (%s), %s", st.Index, st.Kind, name)
+	p.X.Label.Text = "scale ε"
+	p.Y.Label.Text = "bars"
+	end := g.Threshold
+	for _, bars := range g.Bars {
+		for _, b := range bars {
+			if !math.IsInf(b.Death, 1) {
+				end = math.Max(end, b.Death)
+			}
+		}
+	}
+	if !(end > 0) || math.IsInf(end, 0) {
+		end = math.Max(g.Diameter, 1)
+	}
+	// Keep at most maxDrawn longest bars per dimension so the picture
+	// stays readable; the title says when bars were left out.
+	const maxDrawn = 60
+	row := 0.0
+	var ticks []plot.Tick
+	left := 0
+	for d := len(g.Bars) - 1; d >= 0; d-- {
+		bars := longest(g.Bars[d], maxDrawn)
+		left += len(g.Bars[d]) - len(bars)
+		first := row
+		for _, b := range bars {
+			death := b.Death
+			open := math.IsInf(death, 1)
+			if open {
+				death = end
+			}
+			seg := plotter.XYs{{X: b.Birth, Y: row}, {X: death, Y: row}}
+			l, err := plotter.NewLine(seg)
+			if err != nil {
+				return err
+			}
+			l.Color = classColor(d)
+			l.Width = vg.Points(2)
+			p.Add(l)
+			if open {
+				s, err := plotter.NewScatter(plotter.XYs{{X: death, Y: row}})
+				if err != nil {
+					return err
+				}
+				s.Color = classColor(d)
+				s.Shape = draw.TriangleGlyph{}
+				s.Radius = vg.Points(2.5)
+				p.Add(s)
+			}
+			row++
+		}
+		ticks = append(ticks, plot.Tick{Value: (first + row - 1) / 2, Label: "H" + strconv.Itoa(d)})
+		row += 1.5
+	}
+	if left > 0 {
+		p.Title.Text += fmt.Sprintf(" (%d shortest bars not drawn)", left)
+	}
+	p.Y.Tick.Marker = plot.ConstantTicks(ticks)
+	p.Y.Min, p.Y.Max = -1, math.Max(row-0.5, 1)
+	p.X.Min, p.X.Max = 0, end*1.05
+	if g.Scale > 0 && t.Settings.Rule != ScalePersistence {
+		l, err := plotter.NewLine(plotter.XYs{{X: g.Scale, Y: -1}, {X: g.Scale, Y: row}})
+		if err != nil {
+			return err
+		}
+		l.Color = grey
+		l.Dashes = []vg.Length{vg.Points(3), vg.Points(3)}
+		p.Add(l)
+		p.Legend.Add(fmt.Sprintf("ε = %.3g (Betti %s)", g.Scale, bettiString(g.Betti)), l)
+		p.Legend.Top = true
+	}
+	h := plotHeight
+	if row > 40 {
+		h = vg.Length(row) * vg.Points(5)
+	}
+	return writePlot(w, p, plotWidth, h)
+}
+
+// longest returns at most n bars of b with the largest persistence, in
+// their original order.
+func longest(b []Bar, n int) []Bar {
+	if len(b) <= n {
+		return b
+	}
+	pers := make([]float64, len(b))
+	for i, x := range b {
+		pers[i] = x.Persistence()
+	}
+	cut := append([]float64(nil), pers...)
+	sort.Sort(sort.Reverse(sort.Float64Slice(cut)))
+	th := cut[n-1]
+	out := make([]Bar, 0, n)
+	for i, x := range b {
+		if pers[i] > th && len(out) < n {
+			out = append(out, x)
+		}
+	}
+	for i, x := range b {
+		if pers[i] == th && len(out) < n {
+			out = append(out, x)
+		}
+	}
+	return out
+}
+
+func subscript(d int) string {
+	const subs = "₀₁₂₃₄₅₆₇₈₉"
+	s := strconv.Itoa(d)
+	var b bytes.Buffer
+	for _, r := range s {
+		b.WriteString(string([]rune(subs)[r-'0']))
+	}
+	return b.String()
+}
+
+// SVG returns the plot of β₀ per class across stages (WriteBettiSVG with
+// dimension 0), or an empty string for a trace with no stages. It is
+// meant for notebooks that display SVG.
+func (t *Trace) SVG() string {
+	var b bytes.Buffer
+	if err := t.WriteBettiSVG(&b, 0); err != nil {
+		return ""
+	}
+	return b.String()
+}

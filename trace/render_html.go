@@ -1,0 +1,197 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package trace
+
+import (
+	"bytes"
+	"fmt"
+	"html"
+	"io"
+	"strings"
+	"time"
+)
+
+// WriteHTML writes a self-contained HTML report of the trace: the model,
+// sample and settings, the per-stage table, the Betti numbers of every
+// class across stages (one plot per homology dimension), the collapse
+// measures across stages, and a barcode of every stage (the whole
+// sample when it was recorded, else each class). Every plot is inline
+// SVG; the page loads nothing (no scripts, fonts or styles from
+// elsewhere), so a browser opens it offline and a notebook can display
+// it. It returns the first error of a plot or of w.
+func (t *Trace) WriteHTML(w io.Writer) error {
+	var b bytes.Buffer
+	e := html.EscapeString
+	b.WriteString("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n")
+	title := "crease trace"
+	if t.Model.File != "" {
+		title += " of " + t.Model.File
+	}
+	fmt.Fprintf(&b, "<title>%s</title>\n", e(title))
+	b.WriteString(`<style>
+body{font-family:sans-serif;margin:2em;max-width:64em;color:#222}
+table{border-collapse:collapse;margin:1em 0}
+th,td{border:1px solid #bbb;padding:0.2em 0.6em;text-align:right}
+th{background:#eee}
+td.l,th.l{text-align:left}
+figure{margin:1.5em 0}
+figcaption{font-size:90%;color:#555}
+svg{max-width:100%;height:auto}
+.note{font-size:90%;color:#555}
+</style>
+</head>
+<body>
+`)
+	fmt.Fprintf(&b, "<h1>%s</h1>\n", e(title))
+	b.WriteString("<table>\n")
+	row := func(k, v string) { fmt.Fprintf(&b, "<tr><th class=\"l\">%s</th><td class=\"l\">%s</td></tr>\n", e(k), e(v)) }
+	row("tool", t.Tool)
+	if t.Model.File != "" {
+		row("model", t.Model.File)
+	}
+	if t.Model.SHA256 != "" {
+		row("model SHA-256", t.Model.SHA256)
+	}
+	src := t.Sample.Source
+	if src == "" {
+		src = "(matrices)"
+	}
+	row("sample", fmt.Sprintf("%s: %d rows, %d used, width %d", src, t.Sample.Rows, len(t.Sample.Indices), t.Sample.Width))
+	row("classes", strings.Join(t.Sample.Classes, ", "))
+	row("settings", settingsLine(&t.Settings))
+	if t.Timing != nil {
+		row("wall time", fmt.Sprintf("%v (homology share %.0f %%)", t.Timing.Total.Round(time.Millisecond), 100*t.Timing.HomologyShare()))
+	}
+	b.WriteString("</table>\n")
+
+	b.WriteString("<h2>Stages</h2>\n<table>\n<tr><th>stage</th><th class=\"l\">kind</th><th>width</th><th>whole</th>")
+	for _, c := range t.Sample.Classes {
+		fmt.Fprintf(&b, "<th>%s</th>", e(c))
+	}
+	b.WriteString("<th>glued within</th><th>glued across</th></tr>\n")
+	for i := range t.Stages {
+		s := &t.Stages[i]
+		fmt.Fprintf(&b, "<tr><td>%d</td><td class=\"l\">%s</td><td>%d</td><td>%s</td>", s.Index, e(s.Kind), s.Width, bettiString(s.Whole.Betti))
+		for c := range s.Classes {
+			fmt.Fprintf(&b, "<td>%s</td>", bettiString(s.Classes[c].Betti))
+		}
+		if s.Glued != nil {
+			fmt.Fprintf(&b, "<td>%d</td><td>%d</td></tr>\n", s.Glued.Within, s.Glued.Cross)
+		} else {
+			b.WriteString("<td>-</td><td>-</td></tr>\n")
+		}
+	}
+	b.WriteString("</table>\n<p class=\"note\">Betti numbers are written (β₀,β₁,…).</p>\n")
+	if k := t.First(0, AllSimple); k >= 0 {
+		fmt.Fprintf(&b, "<p>Every class is first one component with no holes at stage %d (%s), %s.</p>\n",
+			k, e(t.Stages[k].Kind), yesNo(simpleFrom(t, k)))
+	} else {
+		b.WriteString("<p>At no stage is every class one component with no holes.</p>\n")
+	}
+	if k := t.First(1, CrossGlued); k >= 0 {
+		fmt.Fprintf(&b, "<p>Points of different classes are first glued together at stage %d (%s): %d pairs.</p>\n",
+			k, e(t.Stages[k].Kind), t.Stages[k].Glued.Cross)
+	} else if len(t.Stages) > 1 {
+		b.WriteString("<p>No stage glues points of different classes together.</p>\n")
+	}
+
+	b.WriteString("<h2>Betti numbers across stages</h2>\n")
+	for d := 0; d <= t.Settings.MaxDim; d++ {
+		if err := figure(&b, fmt.Sprintf("β%s of each class (solid) and of the whole sample (dashed) at every stage.", subscript(d)),
+			func(w io.Writer) error { return t.WriteBettiSVG(w, d) }); err != nil {
+			return err
+		}
+	}
+	if len(t.Stages) > 1 {
+		b.WriteString("<h2>Collapse across stages</h2>\n")
+		if err := figure(&b, "Pairs of points each stage glues together, and what ReLU-type stages do to the points.", t.WriteCollapseSVG); err != nil {
+			return err
+		}
+	}
+	b.WriteString("<h2>Barcodes</h2>\n")
+	for i := range t.Stages {
+		s := &t.Stages[i]
+		if len(s.Whole.Bars) > 0 {
+			if err := figure(&b, fmt.Sprintf("Stage %d (%s), whole sample.", s.Index, s.Kind),
+				func(w io.Writer) error { return t.WriteBarcodeSVG(w, i, "") }); err != nil {
+				return err
+			}
+			continue
+		}
+		for c := range s.Classes {
+			if len(s.Classes[c].Bars) == 0 {
+				continue
+			}
+			name := s.Classes[c].Label
+			if err := figure(&b, fmt.Sprintf("Stage %d (%s), class %s.", s.Index, s.Kind, name),
+				func(w io.Writer) error { return t.WriteBarcodeSVG(w, i, name) }); err != nil {
+				return err
+			}
+		}
+	}
+	b.WriteString("<p class=\"note\">crease diagnoses models and certifies nothing.</p>\n</body>\n</html>\n")
+	_, err := w.Write(b.Bytes())
+	return err
+}
+
+// HTML returns the report of WriteHTML, or a short HTML error message if
+// a plot fails. It is meant for notebooks that display HTML.
+func (t *Trace) HTML() string {
+	var b bytes.Buffer
+	if err := t.WriteHTML(&b); err != nil {
+		return "<p>crease: " + html.EscapeString(err.Error()) + "</p>"
+	}
+	return b.String()
+}
+
+// figure renders one plot into b as an inline SVG inside a figure.
+func figure(b *bytes.Buffer, caption string, plot func(io.Writer) error) error {
+	var s bytes.Buffer
+	if err := plot(&s); err != nil {
+		return err
+	}
+	svg := s.Bytes()
+	// Drop the XML prolog: inline SVG in HTML starts at the <svg> element.
+	if i := bytes.Index(svg, []byte("<svg")); i > 0 {
+		svg = svg[i:]
+	}
+	b.WriteString("<figure>\n")
+	b.Write(svg)
+	fmt.Fprintf(b, "\n<figcaption>%s</figcaption>\n</figure>\n", html.EscapeString(caption))
+	return nil
+}
+
+func settingsLine(s *Settings) string {
+	var rule string
+	switch s.Rule {
+	case ScaleRelative:
+		rule = fmt.Sprintf("Betti numbers at ε = %g × diameter", s.Scale)
+	case ScalePersistence:
+		rule = fmt.Sprintf("bars with persistence ≥ %g × diameter", s.Persistence)
+	case ScaleHops:
+		rule = fmt.Sprintf("k-NN hop metric, k = %d, at %d hops", s.K, s.Hops)
+	default:
+		rule = s.Rule.String()
+	}
+	return fmt.Sprintf("H0–H%d; %s; per-class cap %d; seed %d; glue τ %g", s.MaxDim, rule, s.Cap, s.Seed, s.GlueTau)
+}
+
+// simpleFrom reports whether every class stays simple from stage k to
+// the last stage.
+func simpleFrom(t *Trace, k int) bool {
+	for i := k; i < len(t.Stages); i++ {
+		if !AllSimple(&t.Stages[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+func yesNo(v bool) string {
+	if v {
+		return "and stays so to the output"
+	}
+	return "but not at every later stage"
+}
