@@ -24,9 +24,11 @@ type simplex struct {
 
 // entry is a simplex with a coefficient in Z/p, packed as
 // index<<coefBits | coefficient so that a heap entry takes 16 bytes.
+// The diameter is stored as its IEEE-754 bits: for non-negative floats
+// the bits order like the values, so the heap compares integers.
 type entry struct {
-	d float64
-	k uint64
+	db uint64
+	k  uint64
 }
 
 // coefBits is the number of low bits of entry.k holding the coefficient.
@@ -35,7 +37,14 @@ const coefBits = 8
 // indexLimit bounds simplex indices so that they pack into entry.k.
 const indexLimit = int64(1) << (63 - coefBits)
 
-func mkEntry(d float64, i, c int64) entry { return entry{d, uint64(i)<<coefBits | uint64(c)} }
+func mkEntry(d float64, i, c int64) entry {
+	if d == 0 {
+		d = 0 // −0 has the sign bit set
+	}
+	return entry{math.Float64bits(d), uint64(i)<<coefBits | uint64(c)}
+}
+
+func (x entry) diam() float64 { return math.Float64frombits(x.db) }
 
 func (x entry) idx() int64  { return int64(x.k >> coefBits) }
 func (x entry) coef() int64 { return int64(x.k & (1<<coefBits - 1)) }

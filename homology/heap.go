@@ -8,7 +8,7 @@ package homology
 // diameter, then (reverse colexicographic refinement) larger index.
 // The pivot of a coboundary column is its earliest entry.
 func before(x, y *entry) bool {
-	return x.d < y.d || (x.d == y.d && x.k > y.k)
+	return x.db < y.db || (x.db == y.db && x.k > y.k)
 }
 
 // entryHeap is a 4-ary min-heap (shallower than a binary heap, so fewer cache misses) of entries ordered by before. It is

@@ -219,18 +219,18 @@ func (e *engine) reduce(columns []simplex, d int, pm *pivotMap) ([]Bar, error) {
 				addCob(other, f)
 				for _, v := range vEnt[vStart[oc]:vStart[oc+1]] {
 					g := v.coef() * f % p
-					red.push(mkEntry(v.d, v.idx(), g))
-					addCob(simplex{v.d, v.idx()}, g)
+					red.push(mkEntry(v.diam(), v.idx(), g))
+					addCob(simplex{v.diam(), v.idx()}, g)
 				}
-			} else if sf, ap := e.apparentFacet(ait, simplex{piv.d, pi}, k+1); ap {
-				sign := e.cofaceSign(sf, simplex{piv.d, pi}, k)
+			} else if sf, ap := e.apparentFacet(ait, simplex{piv.diam(), pi}, k+1); ap {
+				sign := e.cofaceSign(sf, simplex{piv.diam(), pi}, k)
 				f := (p - pc*e.inv[sign]%p) % p
 				red.push(mkEntry(sf.d, sf.i, f))
 				addCob(sf, f)
 			} else {
 				pm.put(pi, ci, pc)
-				if piv.d > col.d {
-					bars = append(bars, Bar{col.d, piv.d})
+				if piv.diam() > col.d {
+					bars = append(bars, Bar{col.d, piv.diam()})
 				}
 				// Store the reduction column.
 				for {
