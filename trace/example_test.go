@@ -10,6 +10,7 @@ import (
 	"log"
 	"math"
 	"os"
+	"strings"
 
 	"gonum.org/v1/gonum/mat"
 
@@ -123,4 +124,61 @@ func ExampleCompare() {
 	fmt.Println("identical traces diverge at", c.Diverge)
 	// Output:
 	// identical traces diverge at -1
+}
+
+func ExampleReadCSV() {
+	const data = `# two classes in the plane
+x,y,kind
+0,0,dot
+1,0,dot
+0,1,dot
+5,5,cross
+6,5,cross
+5,6,cross
+6,6,cross
+`
+	s, err := trace.ReadCSV(strings.NewReader(data), "points.csv", &trace.CSVSettings{Label: "kind"})
+	if err != nil {
+		log.Fatal(err)
+	}
+	fmt.Println(s.Classes, s.Counts(), s.Labels)
+	_, err = trace.ReadCSV(strings.NewReader(data), "points.csv", &trace.CSVSettings{Label: "colour"})
+	fmt.Println(err)
+	// Output:
+	// [cross dot] [4 3] [1 1 1 0 0 0 0]
+	// points.csv: no label column named "colour" (header: x,y,kind)
+}
+
+func ExampleSample_Cap() {
+	x := mat.NewDense(8, 1, []float64{0, 1, 2, 3, 4, 5, 6, 7})
+	s, err := trace.NewSampleInts(x, []int{0, 0, 0, 0, 0, 1, 1, 1})
+	if err != nil {
+		log.Fatal(err)
+	}
+	c := s.Cap(3, 42)
+	fmt.Println(c.Counts(), len(c.Rows))
+	fmt.Println("class 1 kept whole:", c.Rows[3:])
+	// Output:
+	// [3 3] 6
+	// class 1 kept whole: [5 6 7]
+}
+
+func ExampleTrace_WriteCSV() {
+	tr := exampleTrace()
+	var b strings.Builder
+	if err := tr.WriteCSV(&b); err != nil {
+		log.Fatal(err)
+	}
+	for _, line := range strings.Split(b.String(), "\n") {
+		if strings.HasPrefix(line, "stage,") || strings.HasPrefix(line, "3,affine,low,betti.") || strings.HasPrefix(line, "3,affine,,glued.") {
+			fmt.Println(line)
+		}
+	}
+	// Output:
+	// stage,kind,class,measure,value
+	// 3,affine,,glued.cross,46
+	// 3,affine,,glued.total,68
+	// 3,affine,,glued.within,22
+	// 3,affine,low,betti.0,1
+	// 3,affine,low,betti.1,0
 }
