@@ -24,7 +24,7 @@ import (
 func (t *Trace) WriteHTML(w io.Writer) error {
 	var b bytes.Buffer
 	e := html.EscapeString
-	b.WriteString("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n")
+	b.WriteString("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\"/>\n")
 	title := "crease trace"
 	if t.Model.File != "" {
 		title += " of " + t.Model.File
@@ -46,7 +46,9 @@ svg{max-width:100%;height:auto}
 `)
 	fmt.Fprintf(&b, "<h1>%s</h1>\n", e(title))
 	b.WriteString("<table>\n")
-	row := func(k, v string) { fmt.Fprintf(&b, "<tr><th class=\"l\">%s</th><td class=\"l\">%s</td></tr>\n", e(k), e(v)) }
+	row := func(k, v string) {
+		fmt.Fprintf(&b, "<tr><th class=\"l\">%s</th><td class=\"l\">%s</td></tr>\n", e(k), e(v))
+	}
 	row("tool", t.Tool)
 	if t.Model.File != "" {
 		row("model", t.Model.File)

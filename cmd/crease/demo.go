@@ -8,6 +8,7 @@ import (
 	"context"
 	"fmt"
 	"io"
+	"path/filepath"
 
 	"crease.dev/crease/internal/demo"
 )
@@ -24,7 +25,8 @@ func init() {
 // prints, per model, its per-stage table and a one-line verdict read
 // from the trace.
 func runDemo(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer) error {
-	fs := newFlagSet("demo", "", stderr)
+	fs := newFlagSet("demo", "[--dir DIR]", stderr)
+	dir := fs.String("dir", "", "also write each model's trace as DIR/<model>.json (atomically), e.g. for crease report")
 	pos, err := parseFlags(fs, args)
 	if err != nil {
 		return err
@@ -50,6 +52,13 @@ func runDemo(ctx context.Context, args []string, stdin io.Reader, stdout, stderr
 			return err
 		}
 		fmt.Fprintf(stdout, "verdict: %s %s.\n", name, demo.Judge(tr).String(tr))
+		if *dir != "" {
+			path := filepath.Join(*dir, name+".json")
+			if err := writeFileAtomic(path, tr.WriteJSON); err != nil {
+				return fmt.Errorf("%s: %w", path, err)
+			}
+			fmt.Fprintf(stderr, "crease demo: wrote %s\n", path)
+		}
 		if i == len(demo.Models)-1 {
 			fmt.Fprintln(stdout, "\ncrease diagnoses models and certifies nothing.")
 		}

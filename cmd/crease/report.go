@@ -1,0 +1,55 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+
+	"crease.dev/crease/trace"
+)
+
+func init() {
+	register(&command{
+		name:    "report",
+		summary: "write a self-contained HTML report of a trace (plots as inline SVG)",
+		run:     runReport,
+	})
+}
+
+// runReport reads a trace JSON file (or "-" for stdin) and writes its
+// HTML report to --out atomically, or to stdout without --out.
+func runReport(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer) error {
+	fs := newFlagSet("report", "TRACE.json [--out report.html]", stderr)
+	out := fs.String("out", "", "write the report to this file (atomically) instead of stdout")
+	pos, err := parseFlags(fs, args)
+	if err != nil {
+		return err
+	}
+	if len(pos) != 1 {
+		fs.Usage()
+		return fmt.Errorf("usage: want one trace file, got %d arguments", len(pos))
+	}
+	r, closer, name, err := openInput(pos[0], stdin)
+	if err != nil {
+		return err
+	}
+	tr, err := trace.ReadJSON(r)
+	closer()
+	if err != nil {
+		return fmt.Errorf("%s: %w", name, err)
+	}
+	if len(tr.Stages) == 0 {
+		return fmt.Errorf("%s: the trace has no stages", name)
+	}
+	if *out == "" {
+		return tr.WriteHTML(stdout)
+	}
+	if err := writeFileAtomic(*out, tr.WriteHTML); err != nil {
+		return fmt.Errorf("%s: %w", *out, err)
+	}
+	return nil
+}

@@ -1,0 +1,162 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package trace_test
+
+import (
+	"bytes"
+	"context"
+	"encoding/xml"
+	"io"
+	"math"
+	"strings"
+	"testing"
+
+	"gonum.org/v1/gonum/mat"
+
+	"crease.dev/crease/onnxload"
+	"crease.dev/crease/trace"
+)
+
+// renderTrace traces two rings of 24 points (each β = (1, 1), Hatcher,
+// Algebraic Topology, Example 2.23) through an identity, a ReLU and a
+// projection onto the first coordinate.
+func renderTrace(t testing.TB) *trace.Trace {
+	const m = 24
+	x := mat.NewDense(2*m, 2, nil)
+	labels := make([]string, 2*m)
+	for k := range m {
+		th := 2 * math.Pi * float64(k) / m
+		x.SetRow(k, []float64{3 + math.Cos(th), 3 + math.Sin(th)})
+		x.SetRow(m+k, []float64{3 + math.Cos(th), 8 + math.Sin(th)})
+		labels[k], labels[m+k] = "low", "high"
+	}
+	s, err := trace.NewSample(x, labels)
+	if err != nil {
+		t.Fatal(err)
+	}
+	stages := []onnxload.Stage{
+		{Kind: onnxload.Affine, In: 2, Out: 2, W: mat.NewDense(2, 2, []float64{1, 0, 0, 1}), B: []float64{0, 0}},
+		{Kind: onnxload.ReLU, In: 2, Out: 2},
+		{Kind: onnxload.Affine, In: 2, Out: 2, W: mat.NewDense(2, 2, []float64{1, 0, 0, 0}), B: []float64{0, 0}},
+	}
+	set := trace.DefaultSettings()
+	set.Scale = 0.2
+	tr, err := trace.Run(context.Background(), stages, s, set)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return tr
+}
+
+// wellFormed checks that data is well-formed XML (XML 1.0, as read by
+// encoding/xml) and returns the number of elements named name.
+func wellFormed(t *testing.T, what string, data []byte, name string) int {
+	t.Helper()
+	d := xml.NewDecoder(bytes.NewReader(data))
+	d.Strict = true
+	n := 0
+	for {
+		tok, err := d.Token()
+		if err == io.EOF {
+			return n
+		}
+		if err != nil {
+			t.Fatalf("%s: not well-formed XML: %v", what, err)
+		}
+		if se, ok := tok.(xml.StartElement); ok && se.Name.Local == name {
+			n++
+		}
+	}
+}
+
+func TestRenderSVG(t *testing.T) {
+	tr := renderTrace(t)
+	for _, tc := range []struct {
+		name   string
+		render func(io.Writer) error
+		want   []string // texts the plot must show
+	}{
+		{"betti0", func(w io.Writer) error { return tr.WriteBettiSVG(w, 0) }, []string{"high", "low", "whole sample"}},
+		{"betti1", func(w io.Writer) error { return tr.WriteBettiSVG(w, 1) }, []string{"high", "low"}},
+		{"collapse", tr.WriteCollapseSVG, []string{"across classes", "within a class"}},
+		{"barcode-whole", func(w io.Writer) error { return tr.WriteBarcodeSVG(w, 0, "") }, []string{"H0", "H1", "whole sample"}},
+		{"barcode-class", func(w io.Writer) error { return tr.WriteBarcodeSVG(w, 3, "low") }, []string{"H0", "class low"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			var b bytes.Buffer
+			if err := tc.render(&b); err != nil {
+				t.Fatal(err)
+			}
+			if n := wellFormed(t, tc.name, b.Bytes(), "svg"); n != 1 {
+				t.Errorf("%d <svg> elements, want 1", n)
+			}
+			for _, s := range tc.want {
+				if !bytes.Contains(b.Bytes(), []byte(s)) {
+					t.Errorf("plot lacks %q", s)
+				}
+			}
+		})
+	}
+}
+
+func TestRenderErrors(t *testing.T) {
+	tr := renderTrace(t)
+	for _, tc := range []struct {
+		name, want string
+		err        error
+	}{
+		{"dim above maxdim", "dimension 2 outside 0..1", tr.WriteBettiSVG(io.Discard, 2)},
+		{"negative dim", "dimension -1", tr.WriteBettiSVG(io.Discard, -1)},
+		{"no such stage", "no stage 9", tr.WriteBarcodeSVG(io.Discard, 9, "")},
+		{"no such class", `no class "mid"`, tr.WriteBarcodeSVG(io.Discard, 1, "mid")},
+		{"empty trace", "no stages", (&trace.Trace{}).WriteBettiSVG(io.Discard, 0)},
+	} {
+		if tc.err == nil || !strings.Contains(tc.err.Error(), tc.want) {
+			t.Errorf("%s: error %v, want one containing %q", tc.name, tc.err, tc.want)
+		}
+	}
+}
+
+// TestRenderHTML checks that the report is self-contained: one inline
+// SVG per plot (β₀, β₁, collapse, a barcode per stage), no script and no
+// reference to anything outside the page.
+func TestRenderHTML(t *testing.T) {
+	tr := renderTrace(t)
+	page := tr.HTML()
+	if !strings.HasPrefix(page, "<!DOCTYPE html>") {
+		t.Fatalf("report does not start with a doctype: %.40q", page)
+	}
+	body := strings.TrimPrefix(page, "<!DOCTYPE html>\n")
+	want := (tr.Settings.MaxDim + 1) + 1 + len(tr.Stages)
+	if n := wellFormed(t, "report", []byte(body), "svg"); n != want {
+		t.Errorf("report has %d <svg> elements, want %d", n, want)
+	}
+	for _, bad := range []string{"<script", "src=", "href=", "@import", "url(", "<?xml"} {
+		if strings.Contains(page, bad) {
+			t.Errorf("report contains %q", bad)
+		}
+	}
+	for _, s := range []string{"high", "low", "certifies nothing"} {
+		if !strings.Contains(page, s) {
+			t.Errorf("report lacks %q", s)
+		}
+	}
+	// The projection glues the two rings: the report says where.
+	if !strings.Contains(page, "first glued together at stage 3") {
+		t.Errorf("report does not name stage 3 as the first cross-class gluing")
+	}
+	if tr.HTML() != page {
+		t.Error("two renderings of one trace differ")
+	}
+}
+
+func BenchmarkWriteHTML(b *testing.B) {
+	tr := renderTrace(b)
+	for b.Loop() {
+		if err := tr.WriteHTML(io.Discard); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
