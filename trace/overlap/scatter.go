@@ -154,6 +154,10 @@ func nc1(s *sample) (*NC1Result, error) {
 	}
 	res.Rank = len(keep)
 	// tr(Σ_W Σ_B⁺) = Σ_k v_kᵀ Σ_W v_k / λ_k, v_kᵀ Σ_W v_k = (1/n) Σ_i ((x_i−μ_c)·v_k)².
+	vk := make([][]float64, len(keep))
+	for a, k := range keep {
+		vk[a] = mat.Col(nil, k, &v)
+	}
 	proj := make([]float64, len(keep))
 	resid := make([]float64, s.d)
 	for i := 0; i < s.n; i++ {
@@ -161,11 +165,8 @@ func nc1(s *sample) (*NC1Result, error) {
 		for j, x := range s.row(i) {
 			resid[j] = x - mc[j]
 		}
-		for a, k := range keep {
-			var t float64
-			for j, w := range resid {
-				t += w * v.At(j, k)
-			}
+		for a, col := range vk {
+			t := dot(resid, col)
 			proj[a] += t * t
 		}
 	}
