@@ -27,7 +27,10 @@
 #
 # Usage: bench/homology.sh [CASE-REGEXP]
 # Environment: RUNS (default 3), GUDHI_TIMEOUT (default 600),
-# GUDHI_MEM_GB (default 8), ITER (collapse_edges iterations, default 1).
+# GUDHI_MEM_GB (default 8), ITER (collapse_edges iterations, default 1),
+# SLOW (default 60: a program whose run took longer than SLOW seconds is
+# not run again for that case), MODES (default "rips ec": the GUDHI paths
+# to time; empty times crease alone).
 set -euo pipefail
 cd "$(dirname "$0")/.."
 
@@ -35,6 +38,8 @@ RUNS=${RUNS:-3}
 GUDHI_TIMEOUT=${GUDHI_TIMEOUT:-600}
 GUDHI_MEM_GB=${GUDHI_MEM_GB:-8}
 ITER=${ITER:-1}
+SLOW=${SLOW:-60}
+MODES=${MODES-rips ec}
 FILTER=${1:-.}
 PY=/usr/bin/python3
 DATA=testdata/homology/bench
@@ -124,6 +129,9 @@ timed() {
 	echo "$wall $cpu $rss $status" >>"$tmp/$label.runs"
 }
 
+# slow LABEL: true if the last run of LABEL took longer than SLOW seconds
+slow() { tail -1 "$tmp/$1.runs" | awk -v s="$SLOW" '{exit !($1 > s)}'; }
+
 # summary LABEL: "wall cpu rss status" medians (status of the last run)
 summary() {
 	local f="$tmp/$1.runs"
@@ -151,17 +159,18 @@ for c in "${cases[@]}"; do
 	if [ "$thr" != 0 ]; then args+=(--threshold "$thr"); fi
 	for _ in $(seq "$RUNS"); do
 		timed "$key.crease" "$tmp/crease" "${args[@]}"
+		if slow "$key.crease"; then break; fi
 	done
 	crease_counts=$(awk -v m="$maxdim" -F'\t' '$3=="inf" || $3-$2>1e-9 {n[$1]++} END {s=""; for(d=0;d<=m;d++) s=s (d?" ":"") (n[d]+0); print s}' "$tmp/out")
 	read -r cw cc cr cs <<<"$(summary "$key.crease")"
 	row="| $name | $(cell "$cw" "$cc" "$cr" "$cs")"
 	ratios=""
 	bars="$crease_counts"
-	for mode in rips ec; do
+	for mode in $MODES; do
 		for _ in $(seq "$RUNS"); do
 			rm -f "$tmp/counts"
 			timed "$key.$mode" bash -c "ulimit -v $((GUDHI_MEM_GB * 1024 * 1024)); exec timeout -s KILL $GUDHI_TIMEOUT $PY $tmp/gudhi_bars.py $DATA/$file $maxdim $thr $mode $ITER $tmp/counts"
-			if [ "$(tail -1 "$tmp/$key.$mode.runs" | awk '{print $4}')" != ok ]; then break; fi
+			if [ "$(tail -1 "$tmp/$key.$mode.runs" | awk '{print $4}')" != ok ] || slow "$key.$mode"; then break; fi
 		done
 		read -r gw gc gr gs <<<"$(summary "$key.$mode")"
 		row="$row | $(cell "$gw" "$gc" "$gr" "$gs")"
