@@ -134,6 +134,7 @@ type MemoryError struct {
 	What     string
 }
 
+// Error names the estimate and the budget and suggests remedies.
 func (e *MemoryError) Error() string {
 	return fmt.Sprintf("homology: %s needs about %s, over the budget of %s for %d points; "+
 		"subsample with Landmarks (crease barcode --landmarks M), lower the threshold, "+
