@@ -28,7 +28,7 @@ func TestCompare(t *testing.T) {
 	stages[2].W = mat.NewDense(2, 2, []float64{1, 0, 0, 0.5})
 	set := trace.DefaultSettings()
 	set.Scale = 0.2
-	b, err := trace.Run(context.Background(), stages, circles(t, 24), set)
+	b, err := trace.Run(context.Background(), stages, circles(t), set)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -8,7 +8,6 @@ import (
 	"context"
 	"fmt"
 	"log"
-	"math"
 	"os"
 	"strings"
 
@@ -18,25 +17,15 @@ import (
 	"crease.dev/crease/trace"
 )
 
-// exampleTrace traces two rings of 24 points through identity, ReLU and
-// a projection onto the first coordinate.
+// exampleTrace traces two rings of 24 points (testdata/trace/rings.csv)
+// through identity, ReLU and a projection onto the first coordinate.
 func exampleTrace() *trace.Trace {
-	const m = 24
-	x := mat.NewDense(2*m, 2, nil)
-	labels := make([]string, 2*m)
-	for k := range m {
-		// Angle 2πk/m; the lower half mirrors the upper half exactly.
-		j := min(k, m-k)
-		th := 2 * math.Pi * float64(j) / float64(m)
-		c, sn := math.Cos(th), math.Sin(th)
-		if k > m/2 {
-			sn = -sn
-		}
-		x.SetRow(k, []float64{3 + c, 3 + sn})
-		x.SetRow(m+k, []float64{3 + c, 8 + sn})
-		labels[k], labels[m+k] = "low", "high"
+	f, err := os.Open("../testdata/trace/rings.csv")
+	if err != nil {
+		log.Fatal(err)
 	}
-	sample, err := trace.NewSample(x, labels)
+	defer f.Close()
+	sample, err := trace.ReadCSV(f, "rings.csv", &trace.CSVSettings{Label: "ring"})
 	if err != nil {
 		log.Fatal(err)
 	}

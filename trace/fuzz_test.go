@@ -49,7 +49,7 @@ func TestWorkersDeterministic(t *testing.T) {
 		set := trace.DefaultSettings()
 		set.Scale = 0.2
 		set.Workers = w
-		tr, err := trace.Run(t.Context(), projectModel(), circles(t, 24), set)
+		tr, err := trace.Run(t.Context(), projectModel(), circles(t), set)
 		if err != nil {
 			t.Fatal(err)
 		}

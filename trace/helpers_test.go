@@ -6,7 +6,7 @@ package trace_test
 
 import (
 	"context"
-	"math"
+	"os"
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
@@ -15,24 +15,17 @@ import (
 	"crease.dev/crease/trace"
 )
 
-// circles returns two classes of m points each on circles of radius 1
-// centred at (3, 3) ("low") and (3, 8) ("high"), at angles 2πk/m.
-func circles(t testing.TB, m int) *trace.Sample {
-	x := mat.NewDense(2*m, 2, nil)
-	labels := make([]string, 2*m)
-	for k := range m {
-		// Angle 2πk/m; the lower half mirrors the upper half exactly.
-		j := min(k, m-k)
-		th := 2 * math.Pi * float64(j) / float64(m)
-		c, sn := math.Cos(th), math.Sin(th)
-		if k > m/2 {
-			sn = -sn
-		}
-		x.SetRow(k, []float64{3 + c, 3 + sn})
-		x.SetRow(m+k, []float64{3 + c, 8 + sn})
-		labels[k], labels[m+k] = "low", "high"
+// circles reads testdata/trace/rings.csv (testdata/gen/trace_rings.py):
+// two classes of 24 points on circles of radius 1 centred at (3, 3)
+// ("low") and (3, 8) ("high"), at angles 2πk/24, the lower halves
+// mirroring the upper halves exactly.
+func circles(t testing.TB) *trace.Sample {
+	f, err := os.Open("../testdata/trace/rings.csv")
+	if err != nil {
+		t.Fatal(err)
 	}
-	s, err := trace.NewSample(x, labels)
+	defer f.Close()
+	s, err := trace.ReadCSV(f, "rings.csv", &trace.CSVSettings{Label: "ring"})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -49,11 +42,11 @@ func projectModel() []onnxload.Stage {
 	}
 }
 
-// circleTrace runs projectModel on circles(24) at relative scale 0.2.
+// circleTrace runs projectModel on circles at relative scale 0.2.
 func circleTrace(t testing.TB) *trace.Trace {
 	set := trace.DefaultSettings()
 	set.Scale = 0.2
-	tr, err := trace.Run(context.Background(), projectModel(), circles(t, 24), set)
+	tr, err := trace.Run(context.Background(), projectModel(), circles(t), set)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -83,7 +83,7 @@ func TestRunRules(t *testing.T) {
 		{"hops", trace.Settings{MaxDim: 1, Rule: trace.ScaleHops, K: 4, Hops: 1}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			tr, err := trace.Run(context.Background(), projectModel(), circles(t, 24), &tc.set)
+			tr, err := trace.Run(context.Background(), projectModel(), circles(t), &tc.set)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -103,7 +103,7 @@ func TestRunRules(t *testing.T) {
 
 // TestRunErrors checks that bad input gives an error naming the problem.
 func TestRunErrors(t *testing.T) {
-	s := circles(t, 24)
+	s := circles(t)
 	wide := []onnxload.Stage{{Kind: onnxload.Affine, In: 3, Out: 1, W: mat.NewDense(1, 3, nil), B: []float64{0}}}
 	for _, tc := range []struct {
 		name   string
@@ -135,7 +135,7 @@ func TestRunCancel(t *testing.T) {
 	set.Scale = 0.2
 	set.Workers = 1
 	set.Progress = func(trace.Progress) { cancel() }
-	tr, err := trace.Run(ctx, projectModel(), circles(t, 24), set)
+	tr, err := trace.Run(ctx, projectModel(), circles(t), set)
 	if !errors.Is(err, context.Canceled) {
 		t.Fatalf("got error %v, want context.Canceled", err)
 	}

@@ -143,7 +143,7 @@ func TestSchema(t *testing.T) {
 	set := trace.DefaultSettings()
 	set.Scale = 0.2
 	set.Timing = true
-	timed, err := trace.Run(context.Background(), projectModel(), circles(t, 24), set)
+	timed, err := trace.Run(context.Background(), projectModel(), circles(t), set)
 	if err != nil {
 		t.Fatal(err)
 	}

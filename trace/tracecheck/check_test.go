@@ -7,7 +7,7 @@ package tracecheck_test
 import (
 	"context"
 	"fmt"
-	"math"
+	"os"
 	"strings"
 	"testing"
 
@@ -29,7 +29,8 @@ func (f *fakeTB) Errorf(format string, args ...any) {
 	f.msgs = append(f.msgs, fmt.Sprintf(format, args...))
 }
 
-// ringTrace traces two rings of 24 points through identity, ReLU and a
+// ringTrace traces two rings of 24 points (testdata/trace/rings.csv)
+// through identity, ReLU and a
 // projection onto the first coordinate, at relative scale 0.2: each
 // ring has β = (1, 1) (Hatcher, Algebraic Topology, Example 2.23) until
 // the projection makes it a segment, β = (1, 0), and the projection
@@ -56,22 +57,12 @@ func softmaxTrace(t *testing.T, c float64) *trace.Trace {
 }
 
 func ringTraceStages(t *testing.T, stages []onnxload.Stage) *trace.Trace {
-	const m = 24
-	x := mat.NewDense(2*m, 2, nil)
-	labels := make([]string, 2*m)
-	for k := range m {
-		// Angle 2πk/m; the lower half mirrors the upper half exactly.
-		j := min(k, m-k)
-		th := 2 * math.Pi * float64(j) / float64(m)
-		c, sn := math.Cos(th), math.Sin(th)
-		if k > m/2 {
-			sn = -sn
-		}
-		x.SetRow(k, []float64{3 + c, 3 + sn})
-		x.SetRow(m+k, []float64{3 + c, 8 + sn})
-		labels[k], labels[m+k] = "low", "high"
+	f, err := os.Open("../../testdata/trace/rings.csv")
+	if err != nil {
+		t.Fatal(err)
 	}
-	s, err := trace.NewSample(x, labels)
+	defer f.Close()
+	s, err := trace.ReadCSV(f, "rings.csv", &trace.CSVSettings{Label: "ring"})
 	if err != nil {
 		t.Fatal(err)
 	}
