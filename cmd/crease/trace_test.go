@@ -12,6 +12,8 @@ import (
 	"strings"
 	"testing"
 
+	"codeberg.org/sbinet/npyio"
+
 	"crease.dev/crease/trace"
 )
 
@@ -53,6 +55,9 @@ func TestTraceCommand(t *testing.T) {
 		code := creaseMain(context.Background(), []string{"trace", digitsModel, digitsSample, "--labels", "label", "--per-class-cap", "10", "--out", out}, nil, &stdout, &stderr)
 		if code != 0 {
 			t.Fatalf("exit %d: %s", code, stderr.String())
+		}
+		if stderr.Len() != 0 {
+			t.Errorf("stderr is not a terminal but got %q", stderr.String())
 		}
 		if !strings.Contains(stdout.String(), "5      affine  10") {
 			t.Errorf("table lacks the last stage:\n%s", stdout.String())
@@ -152,5 +157,78 @@ func TestCompareCommand(t *testing.T) {
 				t.Errorf("stdout %q lacks %q", stdout.String(), tc.want)
 			}
 		})
+	}
+}
+
+// TestTraceCommandOptions checks the hop-count metric, the long CSV and
+// NPY input on the digits sample.
+func TestTraceCommandOptions(t *testing.T) {
+	dir := t.TempDir()
+	csvOut := filepath.Join(dir, "long.csv")
+	var stdout, stderr bytes.Buffer
+	code := creaseMain(context.Background(), []string{"trace", digitsModel, digitsSample, "--metric", "knn", "--hops", "1", "--per-class-cap", "8", "--skip-probe", "--csv", csvOut, "--out", filepath.Join(dir, "t.json")}, nil, &stdout, &stderr)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr.String())
+	}
+	b, err := os.ReadFile(csvOut)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.HasPrefix(string(b), "stage,kind,class,measure,value\n") || !strings.Contains(string(b), "\n5,affine,9,betti.0,") {
+		t.Errorf("long CSV lacks header or rows:\n%.300s", b)
+	}
+	f, err := os.Open(filepath.Join(dir, "t.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	tr, err := trace.ReadJSON(f)
+	f.Close()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if tr.Settings.Rule != trace.ScaleHops || tr.Settings.Hops != 1 || tr.Stages[0].Classes[0].Scale != 1 {
+		t.Errorf("settings %+v, scale %v: want the hops rule at 1 hop", tr.Settings, tr.Stages[0].Classes[0].Scale)
+	}
+}
+
+// TestTraceCommandNPY traces the digits sample given as an NPY pair and
+// checks that it gives the same table as the CSV.
+func TestTraceCommandNPY(t *testing.T) {
+	f, err := os.Open(digitsSample)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, err := trace.ReadCSV(f, "digits_sample.csv", nil)
+	f.Close()
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	xp, yp := filepath.Join(dir, "x.npy"), filepath.Join(dir, "y.npy")
+	var xb, yb bytes.Buffer
+	labels := make([]int64, len(s.Labels))
+	for i, l := range s.Labels {
+		labels[i] = int64(l) // classes are 0..9 in order, so index = digit
+	}
+	if err := npyio.Write(&xb, s.X); err != nil {
+		t.Fatal(err)
+	}
+	if err := npyio.Write(&yb, labels); err != nil {
+		t.Fatal(err)
+	}
+	os.WriteFile(xp, xb.Bytes(), 0o644)
+	os.WriteFile(yp, yb.Bytes(), 0o644)
+	var tables [2]string
+	for i, args := range [][]string{{digitsSample}, {xp, "--labels", yp}} {
+		var stdout, stderr bytes.Buffer
+		all := append([]string{"trace", digitsModel}, args...)
+		all = append(all, "--per-class-cap", "8", "--skip-probe")
+		if code := creaseMain(context.Background(), all, nil, &stdout, &stderr); code != 0 {
+			t.Fatalf("%v: exit %d: %s", args, code, stderr.String())
+		}
+		tables[i] = stdout.String()
+	}
+	if tables[0] != tables[1] {
+		t.Errorf("CSV and NPY tables differ:\n%s\n%s", tables[0], tables[1])
 	}
 }
