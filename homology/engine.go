@@ -491,6 +491,14 @@ func (e *engine) zeroCofacet(it *cofaces, s simplex, k int) (simplex, bool) {
 func (e *engine) zeroCofacetDense(s simplex, k int) (simplex, bool) {
 	var w [maxVerts]int32
 	e.vertices(s.i, k, w[:k])
+	c, _, ok := e.zeroCofacetDenseW(w[:k], s)
+	return c, ok
+}
+
+// zeroCofacetDenseW is zeroCofacetDense for a simplex whose vertices w
+// (decreasing) are known; it also returns the cofacet's vertices.
+func (e *engine) zeroCofacetDenseW(w []int32, s simplex) (simplex, [maxVerts]int32, bool) {
+	k := len(w)
 	lead := 0
 	for q := 1; q < k; q++ {
 		if e.nbStart[w[q]+1]-e.nbStart[w[q]] < e.nbStart[w[lead]+1]-e.nbStart[w[lead]] {
@@ -538,9 +546,9 @@ func (e *engine) zeroCofacetDense(s simplex, k int) (simplex, bool) {
 			f[q] = w[p]
 			q, p = q+1, p+1
 		}
-		return simplex{s.d, e.index(f[:k+1])}, true
+		return simplex{s.d, e.index(f[:k+1])}, f, true
 	}
-	return simplex{}, false
+	return simplex{}, [maxVerts]int32{}, false
 }
 
 // zeroFacet returns the latest facet of s (k vertices) in the filtration
@@ -549,11 +557,19 @@ func (e *engine) zeroCofacetDense(s simplex, k int) (simplex, bool) {
 func (e *engine) zeroFacet(s simplex, k int) (simplex, bool) {
 	var w [maxVerts]int32
 	e.vertices(s.i, k, w[:k])
+	f, _, ok := e.zeroFacetW(w[:k], s.d)
+	return f, ok
+}
+
+// zeroFacetW is zeroFacet for a simplex of diameter d whose vertices w
+// (decreasing) are known; it also returns the facet's vertices.
+func (e *engine) zeroFacetW(w []int32, d float64) (simplex, [maxVerts]int32, bool) {
+	k := len(w)
 	var dd [maxVerts][maxVerts]float64
 	for a := 0; a < k; a++ {
 		for b := a + 1; b < k; b++ {
-			d := e.dist(w[a], w[b])
-			dd[a][b], dd[b][a] = d, d
+			x := e.dist(w[a], w[b])
+			dd[a][b], dd[b][a] = x, x
 		}
 	}
 	// Removing a larger vertex gives a smaller index: try w[0] first.
@@ -566,7 +582,7 @@ func (e *engine) zeroFacet(s simplex, k int) (simplex, bool) {
 				}
 			}
 		}
-		if fd == s.d {
+		if fd == d {
 			var f [maxVerts]int32
 			q := 0
 			for a := 0; a < k; a++ {
@@ -575,15 +591,25 @@ func (e *engine) zeroFacet(s simplex, k int) (simplex, bool) {
 					q++
 				}
 			}
-			return simplex{fd, e.index(f[:k-1])}, true
+			return simplex{fd, e.index(f[:k-1])}, f, true
 		}
 	}
-	return simplex{}, false
+	return simplex{}, [maxVerts]int32{}, false
 }
 
 // apparentAsFacet reports whether s (k vertices) is the facet of a
 // zero-persistence apparent pair.
 func (e *engine) apparentAsFacet(it *cofaces, s simplex, k int) bool {
+	if e.tri != nil {
+		var w [maxVerts]int32
+		e.vertices(s.i, k, w[:k])
+		t, tw, ok := e.zeroCofacetDenseW(w[:k], s)
+		if !ok {
+			return false
+		}
+		f, _, ok := e.zeroFacetW(tw[:k+1], t.d)
+		return ok && f.i == s.i
+	}
 	t, ok := e.zeroCofacet(it, s, k)
 	if !ok {
 		return false
@@ -595,11 +621,18 @@ func (e *engine) apparentAsFacet(it *cofaces, s simplex, k int) bool {
 // apparentFacet returns the facet σ with which t (k vertices) forms a
 // zero-persistence apparent pair (σ, t), if any.
 func (e *engine) apparentFacet(it *cofaces, t simplex, k int) (simplex, bool) {
-	f, ok := e.zeroFacet(t, k)
+	var w [maxVerts]int32
+	e.vertices(t.i, k, w[:k])
+	f, fw, ok := e.zeroFacetW(w[:k], t.d)
 	if !ok {
 		return simplex{}, false
 	}
-	c, ok := e.zeroCofacet(it, f, k-1)
+	var c simplex
+	if e.tri != nil {
+		c, _, ok = e.zeroCofacetDenseW(fw[:k-1], f)
+	} else {
+		c, ok = e.zeroCofacet(it, f, k-1)
+	}
 	if ok && c.i == t.i {
 		return f, true
 	}
