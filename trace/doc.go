@@ -14,7 +14,35 @@
 // stage and for the whole sample and every class (a Group), the trace
 // holds the Vietoris–Rips barcode up to Settings.MaxDim and the Betti
 // numbers read from it by the scale rule, plus flat named measures
-// (see the README's schema section and MeasureNames).
+// (see trace/schema.json and MeasureNames).
+//
+// # Samples
+//
+// A Sample holds the points (rows), a class index per row and the class
+// names. ReadCSV reads a CSV with a label column (by header name or
+// 1-based number; labels may be strings or integers), ReadNPY a pair of
+// NPY files, NewSample and NewSampleInts Go matrices. Every class needs at
+// least MinClassPoints rows. Run keeps at most Settings.Cap rows per class
+// (Sample.Cap, a seeded stratified subsample) and records the rows used.
+//
+// # Measures
+//
+// Besides the barcodes and Betti numbers of each group, every stage holds
+// named scalar measures: what the stage collapsed (package relu: glued
+// pairs, distortion, affine rank, ReLU folds) and how far apart the
+// classes are (package trace/overlap: k-NN agreement, margins, Fisher
+// ratio, silhouette, NC1, linear probe, softmax Voronoi test, intrinsic
+// dimension). Stage.Value and Trace.Series read any of them by name;
+// Trace.MeasureNames lists those present; trace/schema.json documents them
+// all.
+//
+// # Queries
+//
+// Stage, StagesOfKind and StageOfNode find stages; Series gives one
+// measure of one class at every stage; First finds the first stage where a
+// predicate such as AllSimple or CrossGlued holds; Summaries digests every
+// stage; Compare compares two traces. Package trace/tracecheck turns these
+// into test assertions.
 //
 // # Scale rules
 //
