@@ -58,7 +58,9 @@ type StageComparison struct {
 type GroupComparison struct {
 	Label string
 	// Bottleneck[d] is the bottleneck distance between the dimension-d
-	// barcodes (+Inf when the numbers of infinite bars differ).
+	// barcodes, with bars alive at a group's threshold taken to die
+	// there (barcodes are truncated at the scale the rule needs, and an
+	// infinite bar would make every distance +Inf).
 	Bottleneck []float64
 	// Betti[d] is B's Betti number minus A's.
 	Betti []int
@@ -97,7 +99,7 @@ func Compare(a, b *Trace, set *CompareSettings) (*Comparison, error) {
 		cmpGroup := func(ga, gb *Group, name string) GroupComparison {
 			gc := GroupComparison{Label: ga.Label}
 			for d := range min(len(ga.Bars), len(gb.Bars)) {
-				bn := homology.Bottleneck(homologyBars(ga.Bars[d]), homologyBars(gb.Bars[d]))
+				bn := homology.Bottleneck(clipBars(ga.Bars[d], ga.Threshold), clipBars(gb.Bars[d], gb.Threshold))
 				gc.Bottleneck = append(gc.Bottleneck, bn)
 				sc.Max = max(sc.Max, bn)
 				if bn > set.Tol {
@@ -150,6 +152,20 @@ func Compare(a, b *Trace, set *CompareSettings) (*Comparison, error) {
 		out.Diverge, out.Reason = n, fmt.Sprintf("the traces have %d and %d stages", len(a.Stages), len(b.Stages))
 	}
 	return out, nil
+}
+
+// clipBars converts bars to homology's type, ending infinite bars at
+// the threshold when it is finite and positive.
+func clipBars(b []Bar, threshold float64) []homology.Bar {
+	out := homologyBars(b)
+	if threshold > 0 && !math.IsInf(threshold, 0) {
+		for i := range out {
+			if math.IsInf(out[i].Death, 1) {
+				out[i].Death = max(threshold, out[i].Birth)
+			}
+		}
+	}
+	return out
 }
 
 func abs(x int) int {

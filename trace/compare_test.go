@@ -51,6 +51,15 @@ func TestCompare(t *testing.T) {
 	if got := s.Measures["glued.cross"]; got != -46 {
 		t.Errorf("Δ glued.cross = %v, want −46", got)
 	}
+	for _, st := range c.Stages {
+		for _, g := range append(st.Classes, st.Whole) {
+			for d, v := range g.Bottleneck {
+				if math.IsInf(v, 0) || math.IsNaN(v) {
+					t.Errorf("stage %d %q dimension %d: bottleneck %v, want finite (bars clipped at the threshold)", st.Index, g.Label, d, v)
+				}
+			}
+		}
+	}
 	for i := range 3 {
 		if c.Stages[i].Max != 0 {
 			t.Errorf("stage %d: max change %v, want 0", i, c.Stages[i].Max)
