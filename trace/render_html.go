@@ -93,7 +93,7 @@ svg{max-width:100%;height:auto}
 		b.WriteString("<p>At no stage is every class one component with no holes.</p>\n")
 	}
 	if k := t.First(1, CrossGlued); k >= 0 {
-		fmt.Fprintf(&b, "<p>Points of different classes are first glued together at stage %d (%s): %d pairs.</p>\n",
+		fmt.Fprintf(&b, "<p>Points of different classes are first glued together at stage %d (%s): %d pair(s).</p>\n",
 			k, e(t.Stages[k].Kind), t.Stages[k].Glued.Cross)
 	} else if len(t.Stages) > 1 {
 		b.WriteString("<p>No stage glues points of different classes together.</p>\n")
@@ -177,7 +177,11 @@ func settingsLine(s *Settings) string {
 	default:
 		rule = s.Rule.String()
 	}
-	return fmt.Sprintf("H0–H%d; %s; per-class cap %d; seed %d; glue τ %g", s.MaxDim, rule, s.Cap, s.Seed, s.GlueTau)
+	cap := "none"
+	if s.Cap > 0 {
+		cap = fmt.Sprint(s.Cap)
+	}
+	return fmt.Sprintf("H0–H%d; %s; per-class cap %s; seed %d; glue τ %g", s.MaxDim, rule, cap, s.Seed, s.GlueTau)
 }
 
 // simpleFrom reports whether every class stays simple from stage k to

@@ -72,7 +72,7 @@ func (v Verdict) String(tr *trace.Trace) string {
 	var b strings.Builder
 	if v.FirstCross >= 0 {
 		s := &tr.Stages[v.FirstCross]
-		fmt.Fprintf(&b, "first glues points of different classes at stage %d (%s, %d pairs)", s.Index, s.Kind, v.Cross)
+		fmt.Fprintf(&b, "first glues points of different classes at stage %d (%s, %d pair(s))", s.Index, s.Kind, v.Cross)
 	} else {
 		b.WriteString("glues no points of different classes at any stage")
 	}
