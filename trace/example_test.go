@@ -171,3 +171,35 @@ func ExampleTrace_WriteCSV() {
 	// 3,affine,low,betti.0,1
 	// 3,affine,low,betti.1,0
 }
+
+func ExampleRunFile() {
+	f, err := os.Open("../testdata/onnx/digits_sample.csv")
+	if err != nil {
+		log.Fatal(err)
+	}
+	defer f.Close()
+	sample, err := trace.ReadCSV(f, "digits_sample.csv", &trace.CSVSettings{Label: "label"})
+	if err != nil {
+		log.Fatal(err)
+	}
+	set := trace.DefaultSettings()
+	set.Cap = 10 // ten digits of each class
+	set.SkipProbe = true
+	tr, err := trace.RunFile(context.Background(), "../testdata/onnx/digits.onnx", sample, set)
+	if err != nil {
+		log.Fatal(err)
+	}
+	for _, s := range tr.Stages {
+		knn, _ := s.Value("", "knn.accuracy")
+		fmt.Printf("%d %-6s width %2d  5-NN accuracy %.2f\n", s.Index, s.Kind, s.Width, knn)
+	}
+	fmt.Println(len(tr.Sample.Indices), "of", tr.Sample.Rows, "rows; model hash of", len(tr.Model.SHA256), "hex digits")
+	// Output:
+	// 0 input  width 64  5-NN accuracy 0.95
+	// 1 affine width 32  5-NN accuracy 0.98
+	// 2 relu   width 32  5-NN accuracy 0.97
+	// 3 affine width 16  5-NN accuracy 0.94
+	// 4 relu   width 16  5-NN accuracy 0.95
+	// 5 affine width 10  5-NN accuracy 0.97
+	// 100 of 300 rows; model hash of 64 hex digits
+}
