@@ -64,6 +64,9 @@ type GroupComparison struct {
 	Bottleneck []float64
 	// Betti[d] is B's Betti number minus A's.
 	Betti []int
+	// Measures holds B − A for every per-class measure present in both
+	// (nil for the whole sample).
+	Measures map[string]float64
 }
 
 // Compare compares traces a and b stage by stage. Traces of different
@@ -113,6 +116,21 @@ func Compare(a, b *Trace, set *CompareSettings) (*Comparison, error) {
 					note(fmt.Sprintf("%s: β%d %d → %d", name, d, ga.Betti[d], gb.Betti[d]))
 				}
 			}
+			for _, k := range sortedKeys(ga.Measures) {
+				vb, ok := gb.Measures[k]
+				if !ok {
+					continue
+				}
+				if gc.Measures == nil {
+					gc.Measures = map[string]float64{}
+				}
+				d := vb - ga.Measures[k]
+				gc.Measures[k] = d
+				sc.Max = max(sc.Max, math.Abs(d))
+				if math.Abs(d) > set.Tol {
+					note(fmt.Sprintf("%s: %s %.4g → %.4g", name, k, ga.Measures[k], vb))
+				}
+			}
 			return gc
 		}
 		sc.Whole = cmpGroup(&sa.Whole, &sb.Whole, "whole sample")
@@ -123,11 +141,7 @@ func Compare(a, b *Trace, set *CompareSettings) (*Comparison, error) {
 			}
 			sc.Classes = append(sc.Classes, cmpGroup(&sa.Classes[c], gb, "class "+sa.Classes[c].Label))
 		}
-		var names []string
-		for k := range sa.Measures {
-			names = append(names, k)
-		}
-		names = append(names, "glued.total", "glued.within", "glued.cross")
+		names := append(sortedKeys(sa.Measures), "glued.total", "glued.within", "glued.cross")
 		sort.Strings(names)
 		names = slices.Compact(names)
 		for _, k := range names {
@@ -152,6 +166,16 @@ func Compare(a, b *Trace, set *CompareSettings) (*Comparison, error) {
 		out.Diverge, out.Reason = n, fmt.Sprintf("the traces have %d and %d stages", len(a.Stages), len(b.Stages))
 	}
 	return out, nil
+}
+
+// sortedKeys returns the keys of m in increasing order.
+func sortedKeys(m map[string]float64) []string {
+	keys := make([]string, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	return keys
 }
 
 // clipBars converts bars to homology's type, ending infinite bars at

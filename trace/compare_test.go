@@ -48,6 +48,17 @@ func TestCompare(t *testing.T) {
 			t.Errorf("class %s: bottleneck in H1 %v, want > 0", g.Label, g.Bottleneck[1])
 		}
 	}
+	// In A both rings project onto one segment, where the points of the
+	// two classes coincide; in B the ellipses lie apart (y near 1.5 and
+	// 4), so every point's 5 nearest neighbours share its class and the
+	// per-class 5-NN agreement rises to 1.
+	for _, g := range s.Classes {
+		d, ok := g.Measures["knn.accuracy"]
+		bv := b.Stages[3].Group(g.Label).Measures["knn.accuracy"]
+		if !ok || !(d > 0) || bv != 1 {
+			t.Errorf("class %s: Δ knn.accuracy %v (present %v), B's %v; want a rise to 1", g.Label, d, ok, bv)
+		}
+	}
 	if got := s.Measures["glued.cross"]; got != -46 {
 		t.Errorf("Δ glued.cross = %v, want −46", got)
 	}
