@@ -51,7 +51,7 @@ func runDemo(ctx context.Context, args []string, stdin io.Reader, stdout, stderr
 		if err := tr.WriteTable(stdout); err != nil {
 			return err
 		}
-		fmt.Fprintf(stdout, "verdict: %s %s.\n", name, demo.Judge(tr).String(tr))
+		fmt.Fprintf(stdout, "verdict on %s: %s.\n", name, demo.Judge(tr).String(tr))
 		if *dir != "" {
 			path := filepath.Join(*dir, name+".json")
 			if err := writeFileAtomic(path, tr.WriteJSON); err != nil {

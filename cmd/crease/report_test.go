@@ -22,7 +22,7 @@ func TestDemoAndReport(t *testing.T) {
 	if code := creaseMain(context.Background(), []string{"demo", "--dir", dir}, nil, &out, &errb); code != 0 {
 		t.Fatalf("crease demo: exit %d: %s", code, errb.String())
 	}
-	for _, s := range []string{"arm_wide", "arm_narrow", "verdict: arm_wide", "verdict: arm_narrow", "softmax", "certifies nothing"} {
+	for _, s := range []string{"arm_wide", "arm_narrow", "verdict on arm_wide", "verdict on arm_narrow", "softmax", "certifies nothing"} {
 		if !strings.Contains(out.String(), s) {
 			t.Errorf("crease demo output lacks %q", s)
 		}
@@ -36,8 +36,9 @@ func TestDemoAndReport(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if n := bytes.Count(page, []byte("<svg")); n != 2+1+7 {
-		t.Errorf("report has %d plots, want 10 (β0, β1, collapse, 7 barcodes)", n)
+	// The demo traces classes only, so each of the 7 stages has 3 barcodes.
+	if n := bytes.Count(page, []byte("<svg")); n != 2+1+7*3 {
+		t.Errorf("report has %d plots, want 24 (β0, β1, collapse, 21 barcodes)", n)
 	}
 
 	bad := filepath.Join(dir, "bad.json")

@@ -64,6 +64,12 @@ func TestDemoScenario(t *testing.T) {
 	if v := Judge(narrow); v.FirstCross != 1 {
 		t.Errorf("narrow model: first cross-class gluing at stage %d, want 1", v.FirstCross)
 	}
+	if v := Judge(wide); v.FirstLayer != 2 || v.FirstLayerCross != 0 {
+		t.Errorf("well-sized model: first layer to stage %d glues %d cross-class pairs, want stage 2 and 0", v.FirstLayer, v.FirstLayerCross)
+	}
+	if v := Judge(narrow); v.FirstLayerCross == 0 {
+		t.Errorf("narrow model: first layer glues no cross-class pairs")
+	}
 	for _, i := range []int{1, 2} {
 		if g := wide.Stage(i).Glued; g == nil || g.Cross != 0 {
 			t.Errorf("well-sized model: stage %d glued %+v, want no cross-class pairs", i, g)
