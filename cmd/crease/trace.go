@@ -94,6 +94,7 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 	if err != nil {
 		return err
 	}
+	fmt.Fprintf(stdout, "# %s: %d of %d rows, %d classes; %s\n", pos[0], len(tr.Sample.Indices), tr.Sample.Rows, len(tr.Sample.Classes), ruleText(tr.Settings))
 	if err := tr.WriteTable(stdout); err != nil {
 		return err
 	}
@@ -108,6 +109,20 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 		}
 	}
 	return nil
+}
+
+// ruleText describes the scale rule of resolved settings.
+func ruleText(s trace.Settings) string {
+	var r string
+	switch s.Rule {
+	case trace.ScaleRelative:
+		r = fmt.Sprintf("Betti numbers at %g × each cloud's diameter", s.Scale)
+	case trace.ScalePersistence:
+		r = fmt.Sprintf("bars at least %g × each cloud's diameter long", s.Persistence)
+	case trace.ScaleHops:
+		r = fmt.Sprintf("Betti numbers at %d hops on the %d-NN graph", s.Hops, s.K)
+	}
+	return fmt.Sprintf("%s, H0–H%d, seed %d", r, s.MaxDim, s.Seed)
 }
 
 // readSample reads a CSV sample, or an NPY pair when data ends in .npy.

@@ -59,6 +59,9 @@ func TestTraceCommand(t *testing.T) {
 		if stderr.Len() != 0 {
 			t.Errorf("stderr is not a terminal but got %q", stderr.String())
 		}
+		if !strings.Contains(stdout.String(), "100 of 300 rows, 10 classes; Betti numbers at 0.1 × each cloud's diameter, H0–H1, seed 1") {
+			t.Errorf("no settings line:\n%s", stdout.String())
+		}
 		if !strings.Contains(stdout.String(), "5      affine  10") {
 			t.Errorf("table lacks the last stage:\n%s", stdout.String())
 		}
@@ -77,6 +80,13 @@ func TestTraceCommand(t *testing.T) {
 	}
 	if len(tr.Stages) != 6 || tr.Model.SHA256 == "" || tr.Sample.Rows != 300 || len(tr.Sample.Indices) != 100 {
 		t.Errorf("stages %d, sha %q, rows %d, used %d", len(tr.Stages), tr.Model.SHA256, tr.Sample.Rows, len(tr.Sample.Indices))
+	}
+}
+
+// TestVersion keeps the version in traces equal to crease version's.
+func TestVersion(t *testing.T) {
+	if trace.Version != Version {
+		t.Errorf("trace.Version %q, crease Version %q", trace.Version, Version)
 	}
 }
 
