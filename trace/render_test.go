@@ -23,6 +23,15 @@ import (
 // Algebraic Topology, Example 2.23) through an identity, a ReLU and a
 // projection onto the first coordinate.
 func renderTrace(t testing.TB) *trace.Trace {
+	tr, err := twoRingTrace()
+	if err != nil {
+		t.Fatal(err)
+	}
+	return tr
+}
+
+// twoRingTrace is renderTrace returning its error.
+func twoRingTrace() (*trace.Trace, error) {
 	const m = 24
 	x := mat.NewDense(2*m, 2, nil)
 	labels := make([]string, 2*m)
@@ -34,7 +43,7 @@ func renderTrace(t testing.TB) *trace.Trace {
 	}
 	s, err := trace.NewSample(x, labels)
 	if err != nil {
-		t.Fatal(err)
+		return nil, err
 	}
 	stages := []onnxload.Stage{
 		{Kind: onnxload.Affine, In: 2, Out: 2, W: mat.NewDense(2, 2, []float64{1, 0, 0, 1}), B: []float64{0, 0}},
@@ -43,11 +52,7 @@ func renderTrace(t testing.TB) *trace.Trace {
 	}
 	set := trace.DefaultSettings()
 	set.Scale = 0.2
-	tr, err := trace.Run(context.Background(), stages, s, set)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return tr
+	return trace.Run(context.Background(), stages, s, set)
 }
 
 // wellFormed checks that data is well-formed XML (XML 1.0, as read by
