@@ -203,3 +203,15 @@ func ExampleRunFile() {
 	// 5 affine width 10  5-NN accuracy 0.97
 	// 100 of 300 rows; model hash of 64 hex digits
 }
+
+func ExampleTrace_All() {
+	tr := exampleTrace()
+	for i, s := range tr.All() {
+		if s.Glued != nil && s.Glued.Within > 0 {
+			fmt.Println("stage", i, "glues", s.Glued.Within, "pairs within classes")
+			break
+		}
+	}
+	// Output:
+	// stage 3 glues 22 pairs within classes
+}

@@ -6,6 +6,7 @@ package trace
 
 import (
 	"fmt"
+	"iter"
 	"math"
 	"slices"
 	"sort"
@@ -19,6 +20,17 @@ func (t *Trace) Stage(i int) *Stage {
 		return nil
 	}
 	return &t.Stages[i]
+}
+
+// All iterates over the stages in order, with their indices.
+func (t *Trace) All() iter.Seq2[int, *Stage] {
+	return func(yield func(int, *Stage) bool) {
+		for i := range t.Stages {
+			if !yield(i, &t.Stages[i]) {
+				return
+			}
+		}
+	}
 }
 
 // StagesOfKind returns the stages of the given kind ("input", "affine",
