@@ -279,7 +279,7 @@ func (t *Trace) WriteBarcodeSVG(w io.Writer, i int, class string) error {
 	}
 	// Keep at most maxDrawn longest bars per dimension so the picture
 	// stays readable; the title says when bars were left out.
-	const maxDrawn = 60
+	const maxDrawn = 30
 	row := 0.0
 	var ticks []plot.Tick
 	left := 0
