@@ -4,6 +4,11 @@
 
 package homology
 
+import (
+	"runtime/debug"
+	"slices"
+)
+
 // before reports whether x comes before y in the filtration: smaller
 // diameter, then (reverse colexicographic refinement) larger index.
 // The pivot of a coboundary column is its earliest entry.
@@ -16,7 +21,14 @@ func before(x, y *entry) bool {
 // inlines.
 type entryHeap struct {
 	a []entry
+	// p, when not zero, is the characteristic of the field: a full heap
+	// of at least minCompact entries is then compacted before it grows.
+	p int64
 }
+
+// minCompact is the smallest heap capacity compacted instead of grown:
+// 64 MiB of entries. Smaller heaps are cheaper to grow than to sort.
+const minCompact = 1 << 22
 
 func (h *entryHeap) reset() { h.a = h.a[:0] }
 
@@ -42,10 +54,28 @@ func (h *entryHeap) push(x entry) {
 // which for a working coboundary of many millions of entries spends
 // more time copying than sifting (and, measured, peaks higher in memory
 // than doubling because more dead copies await collection).
+//
+// A heap of at least minCompact entries in which many simplices occur
+// more than once is first compacted (equal simplices summed, zeros
+// dropped), and grows only if that freed less than half of it. This bounds the heap by about twice the number of its
+// distinct nonzero entries, however many additions the column receives.
 func (h *entryHeap) grow() {
+	if h.p != 0 && cap(h.a) >= minCompact && h.worthCompacting() {
+		h.compact(h.p)
+		if 2*len(h.a) <= cap(h.a) {
+			return
+		}
+	}
 	a := make([]entry, len(h.a), max(2*cap(h.a), 1024))
 	copy(a, h.a)
+	big := cap(h.a) >= minCompact
 	h.a = a
+	if big {
+		// Return the old array (and those of earlier growths) now rather
+		// than at the next collection, which for a heap growing by big
+		// arrays comes late: this lowers the peak resident memory.
+		debug.FreeOSMemory()
+	}
 }
 
 // heapify restores the heap order after entries were appended to h.a.
@@ -114,4 +144,84 @@ func (h *entryHeap) pivot(p int64) (entry, bool) {
 		}
 	}
 	return entry{}, false
+}
+
+// compact sorts the entries, sums the coefficients of equal simplices
+// mod p and drops those that vanish. A slice sorted by before is a
+// valid heap.
+func (h *entryHeap) compact(p int64) {
+	a := h.a
+	slices.SortFunc(a, func(x, y entry) int {
+		if x.db != y.db {
+			if x.db < y.db {
+				return -1
+			}
+			return 1
+		}
+		// Larger index first; equal indices tie whatever the coefficient.
+		xk, yk := x.k>>coefBits, y.k>>coefBits
+		if xk > yk {
+			return -1
+		}
+		if xk < yk {
+			return 1
+		}
+		return 0
+	})
+	out := a[:0]
+	for i := 0; i < len(a); {
+		x := a[i]
+		key := x.k >> coefBits
+		c := x.coef()
+		j := i + 1
+		for j < len(a) && a[j].k>>coefBits == key {
+			c += a[j].coef()
+			j++
+		}
+		if c %= p; c != 0 {
+			out = append(out, entry{x.db, key<<coefBits | uint64(c)})
+		}
+		i = j
+	}
+	h.a = out
+}
+
+// worthCompacting estimates, from the multiplicities in the heap of the
+// simplices of a sample of its entries, whether compaction would remove
+// at least a quarter of the entries. It costs one scan of the heap, far
+// less than the sort.
+func (h *entryHeap) worthCompacting() bool {
+	const samples = 1024
+	const slots = 4 * samples
+	var keys [slots]uint64 // index+1; 0 marks an empty slot
+	var count [slots]int32
+	a := h.a
+	step := len(a) / samples
+	if step == 0 {
+		return false
+	}
+	slot := func(k uint64) int {
+		for i := hashIndex(k) & (slots - 1); ; i = (i + 1) & (slots - 1) {
+			if keys[i] == k || keys[i] == 0 {
+				return int(i)
+			}
+		}
+	}
+	for s := 0; s < samples; s++ {
+		k := a[s*step].k>>coefBits + 1
+		keys[slot(k)] = k
+	}
+	for i := range a {
+		k := a[i].k>>coefBits + 1
+		if j := slot(k); keys[j] == k {
+			count[j]++
+		}
+	}
+	// A simplex occurring m times leaves at most one entry: a uniformly
+	// chosen entry survives with probability at most 1/m.
+	kept := 0.0
+	for s := 0; s < samples; s++ {
+		kept += 1 / float64(count[slot(a[s*step].k>>coefBits+1)])
+	}
+	return kept <= 0.75*samples
 }

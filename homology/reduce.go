@@ -136,7 +136,7 @@ func (e *engine) reduce(columns []simplex, d int, pm *pivotMap) ([]Bar, error) {
 	var bars []Bar
 	it := &cofaces{e: e}
 	ait := &cofaces{e: e}
-	var cob, red entryHeap
+	cob, red := entryHeap{p: p}, entryHeap{p: p}
 	// The reduction matrix: for column c, the simplices added to it (other
 	// than itself) are vEnt[vStart[c]:vStart[c+1]].
 	vStart := make([]int, len(columns)+1)
