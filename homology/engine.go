@@ -597,13 +597,12 @@ func (e *engine) zeroFacetW(w []int32, d float64) (simplex, [maxVerts]int32, boo
 	return simplex{}, [maxVerts]int32{}, false
 }
 
-// apparentAsFacet reports whether s (k vertices) is the facet of a
-// zero-persistence apparent pair.
-func (e *engine) apparentAsFacet(it *cofaces, s simplex, k int) bool {
+// apparentAsFacet reports whether s, with vertices w (decreasing), is
+// the facet of a zero-persistence apparent pair.
+func (e *engine) apparentAsFacet(it *cofaces, s simplex, w []int32) bool {
+	k := len(w)
 	if e.tri != nil {
-		var w [maxVerts]int32
-		e.vertices(s.i, k, w[:k])
-		t, tw, ok := e.zeroCofacetDenseW(w[:k], s)
+		t, tw, ok := e.zeroCofacetDenseW(w, s)
 		if !ok {
 			return false
 		}
@@ -623,7 +622,14 @@ func (e *engine) apparentAsFacet(it *cofaces, s simplex, k int) bool {
 func (e *engine) apparentFacet(it *cofaces, t simplex, k int) (simplex, bool) {
 	var w [maxVerts]int32
 	e.vertices(t.i, k, w[:k])
-	f, fw, ok := e.zeroFacetW(w[:k], t.d)
+	return e.apparentFacetW(it, t, w[:k])
+}
+
+// apparentFacetW is apparentFacet for a simplex whose vertices w
+// (decreasing) are known.
+func (e *engine) apparentFacetW(it *cofaces, t simplex, w []int32) (simplex, bool) {
+	k := len(w)
+	f, fw, ok := e.zeroFacetW(w, t.d)
 	if !ok {
 		return simplex{}, false
 	}

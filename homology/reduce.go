@@ -318,17 +318,20 @@ func (e *engine) dropApparent(cands []simplex, k int) ([]simplex, error) {
 			defer wg.Done()
 			ec := *e // private work counter; shared read-only tables
 			it := &cofaces{e: &ec}
+			var w [maxVerts]int32
 			for i := lo; i < hi; i++ {
 				if (i-lo)&0xfff == 0 && e.ctx.Err() != nil {
 					errs[g] = e.ctx.Err()
 					return
 				}
+				// Decode the vertices once for both checks.
+				ec.vertices(cands[i].i, k, w[:k])
 				if k > 2 {
-					if _, ap := ec.apparentFacet(it, cands[i], k); ap {
+					if _, ap := ec.apparentFacetW(it, cands[i], w[:k]); ap {
 						continue
 					}
 				}
-				keep[i] = !ec.apparentAsFacet(it, cands[i], k)
+				keep[i] = !ec.apparentAsFacet(it, cands[i], w[:k])
 			}
 		}(g, lo, hi)
 	}
