@@ -21,7 +21,9 @@
 # Times are medians of RUNS whole-process runs (wall clock and user+sys
 # CPU), memory the median peak RSS, all from /usr/bin/time -v. A GUDHI run
 # that exceeds GUDHI_TIMEOUT seconds or GUDHI_MEM_GB of address space is
-# reported as "timeout"/"oom" and not repeated; its ratio is then a bound.
+# reported as "timeout"/"oom" and not repeated; after a timeout the ratio
+# is an upper bound, after running out of memory it is "n/a" (GUDHI cannot
+# finish within GUDHI_MEM_GB at all).
 # The bar counts per dimension (bars longer than 1e-9) of crease and GUDHI
 # are compared and a mismatch is flagged in the last column.
 #
@@ -143,14 +145,22 @@ cell() { # wall cpu rss status -> printable cell
 	if [ "$4" = ok ]; then printf '%.2f s (cpu %.2f) %d MB' "$1" "$2" "$3"; else printf '%s (> %.0f s)' "$4" "$1"; fi
 }
 ratio() { # crease-wall other-wall other-status
-	if [ "$3" = ok ]; then awk -v a="$1" -v b="$2" 'BEGIN {printf "%.2f", a/b}'; else awk -v a="$1" -v b="$2" 'BEGIN {printf "< %.2f", a/b}'; fi
+	case $3 in
+	ok) awk -v a="$1" -v b="$2" 'BEGIN {printf "%.2f", a/b}' ;;
+	timeout) awk -v a="$1" -v b="$2" 'BEGIN {printf "< %.2f", a/b}' ;;
+	*) printf 'n/a (gudhi %s)' "$3" ;;
+	esac
 }
 
 echo "# bench/homology.sh $(date -u '+%Y-%m-%d %H:%M UTC'), $(nproc) cores, load average at start: $(cut -d' ' -f1-3 /proc/loadavg)"
 echo "# $(go version | cut -d' ' -f3), gudhi $("$PY" -c 'import gudhi; print(gudhi.__version__)'), RUNS=$RUNS, collapse_edges(nb_iterations=$ITER), GUDHI limits ${GUDHI_TIMEOUT} s / ${GUDHI_MEM_GB} GB"
 echo
-echo "| case | crease | gudhi-rips | gudhi-ec | crease/rips | crease/ec | bars (crease; rips; ec) |"
-echo "|---|---|---|---|---|---|---|"
+head="| case | crease"
+rule="|---|---"
+for mode in $MODES; do head="$head | gudhi-$mode"; rule="$rule|---"; done
+for mode in $MODES; do head="$head | crease/$mode"; rule="$rule|---"; done
+echo "$head | bars (crease${MODES:+; ${MODES// /; }}) |"
+echo "$rule|---|"
 for c in "${cases[@]}"; do
 	read -r name file maxdim thr <<<"$c"
 	[[ $name =~ $FILTER ]] || continue
