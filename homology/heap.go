@@ -78,6 +78,14 @@ func (h *entryHeap) grow() {
 	}
 }
 
+// add appends x without restoring the heap order (see heapify).
+func (h *entryHeap) add(x entry) {
+	if len(h.a) == cap(h.a) {
+		h.grow()
+	}
+	h.a = append(h.a, x)
+}
+
 // heapify restores the heap order after entries were appended to h.a.
 func (h *entryHeap) heapify() {
 	if len(h.a) < 2 {

@@ -198,7 +198,7 @@ func (e *engine) reduce(columns []simplex, d int, pm *pivotMap) ([]Bar, error) {
 					}
 				}
 			}
-			cob.a = append(cob.a, mkEntry(c.d, c.i, cf))
+			cob.add(mkEntry(c.d, c.i, cf))
 		}
 		if settled {
 			vStart[ci+1] = len(vEnt)
