@@ -169,3 +169,62 @@ func TestGUDHI(t *testing.T) {
 		})
 	}
 }
+
+// TestGUDHIBottleneck compares Bottleneck with GUDHI 3.7.1's exact
+// bottleneck_distance(a, b, e=0) on the pairs of
+// testdata/homology/bottleneck.json (testdata/gen/homology_bottleneck.py):
+// barcodes of the fixture clouds and random diagrams, some with many tied
+// costs, some with different numbers of infinite bars (distance +Inf).
+// The distance must agree within 1e-9 and be symmetric.
+func TestGUDHIBottleneck(t *testing.T) {
+	t.Parallel()
+	b, err := os.ReadFile(filepath.Join("..", "testdata", "homology", "bottleneck.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var fix struct {
+		Versions map[string]string `json:"versions"`
+		Pairs    []struct {
+			Name     string        `json:"name"`
+			A        [][2]*float64 `json:"a"`
+			B        [][2]*float64 `json:"b"`
+			Distance *float64      `json:"distance"` // null: +Inf
+		} `json:"pairs"`
+	}
+	if err := json.Unmarshal(b, &fix); err != nil {
+		t.Fatal(err)
+	}
+	if v := fix.Versions["gudhi"]; v != "3.7.1" {
+		t.Fatalf("fixture made with GUDHI %q, want 3.7.1", v)
+	}
+	if len(fix.Pairs) < 20 {
+		t.Fatalf("fixture has %d pairs, want at least 20", len(fix.Pairs))
+	}
+	bars := func(ps [][2]*float64) []Bar {
+		out := make([]Bar, len(ps))
+		for i, p := range ps {
+			out[i] = Bar{Birth: *p[0], Death: math.Inf(1)}
+			if p[1] != nil {
+				out[i].Death = *p[1]
+			}
+		}
+		return out
+	}
+	for _, p := range fix.Pairs {
+		x, y := bars(p.A), bars(p.B)
+		want := math.Inf(1)
+		if p.Distance != nil {
+			want = *p.Distance
+		}
+		got, back := Bottleneck(x, y), Bottleneck(y, x)
+		if math.IsInf(want, 1) {
+			if !math.IsInf(got, 1) || !math.IsInf(back, 1) {
+				t.Errorf("%s: Bottleneck = %v (reversed %v), want +Inf", p.Name, got, back)
+			}
+			continue
+		}
+		if math.Abs(got-want) > gudhiTol || math.Abs(back-want) > gudhiTol {
+			t.Errorf("%s: Bottleneck = %.17g (reversed %.17g), want %.17g", p.Name, got, back, want)
+		}
+	}
+}
