@@ -42,6 +42,40 @@ type gudhiCase struct {
 
 const gudhiTol = 1e-9
 
+// gudhiRead decodes testdata/homology/<file> into v and checks that the
+// fixture records GUDHI 3.7.1.
+func gudhiRead(t *testing.T, file string, v any) {
+	t.Helper()
+	b, err := os.ReadFile(filepath.Join("..", "testdata", "homology", file))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var head struct {
+		Versions map[string]string `json:"versions"`
+	}
+	if err := json.Unmarshal(b, &head); err != nil {
+		t.Fatal(err)
+	}
+	if got := head.Versions["gudhi"]; got != "3.7.1" {
+		t.Fatalf("%s made with GUDHI %q, want 3.7.1", file, got)
+	}
+	if err := json.Unmarshal(b, v); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// gudhiBars converts fixture pairs [birth, death] (death null = +Inf).
+func gudhiBars(ps [][2]*float64) []Bar {
+	out := make([]Bar, len(ps))
+	for i, p := range ps {
+		out[i] = Bar{Birth: *p[0], Death: math.Inf(1)}
+		if p[1] != nil {
+			out[i].Death = *p[1]
+		}
+	}
+	return out
+}
+
 // gudhiLoadCloud reads a fixture cloud with the project's CSV reader.
 func gudhiLoadCloud(t testing.TB, file string) *mat.Dense {
 	t.Helper()
@@ -102,17 +136,8 @@ func gudhiMatch(want, got []Bar) string {
 // drop zero-length bars. No case is skipped.
 func TestGUDHI(t *testing.T) {
 	t.Parallel()
-	b, err := os.ReadFile(filepath.Join("..", "testdata", "homology", "gudhi.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
 	var fix gudhiFixture
-	if err := json.Unmarshal(b, &fix); err != nil {
-		t.Fatal(err)
-	}
-	if v := fix.Versions["gudhi"]; v != "3.7.1" {
-		t.Fatalf("fixture made with GUDHI %q, want 3.7.1", v)
-	}
+	gudhiRead(t, "gudhi.json", &fix)
 	if len(fix.Cases) < 12 {
 		t.Fatalf("fixture has %d cases, want at least 12", len(fix.Cases))
 	}
@@ -155,14 +180,7 @@ func TestGUDHI(t *testing.T) {
 				t.Fatalf("got %d dimensions, fixture %d, want %d", len(bc.Bars), len(c.Bars), c.MaxDim+1)
 			}
 			for d := range c.Bars {
-				want := make([]Bar, len(c.Bars[d]))
-				for i, p := range c.Bars[d] {
-					want[i] = Bar{Birth: *p[0], Death: math.Inf(1)}
-					if p[1] != nil {
-						want[i].Death = *p[1]
-					}
-				}
-				if msg := gudhiMatch(want, bc.Bars[d]); msg != "" {
+				if msg := gudhiMatch(gudhiBars(c.Bars[d]), bc.Bars[d]); msg != "" {
 					t.Errorf("H%d (Z/%d, threshold %v): %s", d, c.Field, bc.Threshold, msg)
 				}
 			}
@@ -178,40 +196,20 @@ func TestGUDHI(t *testing.T) {
 // The distance must agree within 1e-9 and be symmetric.
 func TestGUDHIBottleneck(t *testing.T) {
 	t.Parallel()
-	b, err := os.ReadFile(filepath.Join("..", "testdata", "homology", "bottleneck.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
 	var fix struct {
-		Versions map[string]string `json:"versions"`
-		Pairs    []struct {
+		Pairs []struct {
 			Name     string        `json:"name"`
 			A        [][2]*float64 `json:"a"`
 			B        [][2]*float64 `json:"b"`
 			Distance *float64      `json:"distance"` // null: +Inf
 		} `json:"pairs"`
 	}
-	if err := json.Unmarshal(b, &fix); err != nil {
-		t.Fatal(err)
-	}
-	if v := fix.Versions["gudhi"]; v != "3.7.1" {
-		t.Fatalf("fixture made with GUDHI %q, want 3.7.1", v)
-	}
+	gudhiRead(t, "bottleneck.json", &fix)
 	if len(fix.Pairs) < 20 {
 		t.Fatalf("fixture has %d pairs, want at least 20", len(fix.Pairs))
 	}
-	bars := func(ps [][2]*float64) []Bar {
-		out := make([]Bar, len(ps))
-		for i, p := range ps {
-			out[i] = Bar{Birth: *p[0], Death: math.Inf(1)}
-			if p[1] != nil {
-				out[i].Death = *p[1]
-			}
-		}
-		return out
-	}
 	for _, p := range fix.Pairs {
-		x, y := bars(p.A), bars(p.B)
+		x, y := gudhiBars(p.A), gudhiBars(p.B)
 		want := math.Inf(1)
 		if p.Distance != nil {
 			want = *p.Distance
