@@ -55,10 +55,13 @@ func (h *entryHeap) push(x entry) {
 // more time copying than sifting (and, measured, peaks higher in memory
 // than doubling because more dead copies await collection).
 //
-// A heap of at least minCompact entries in which many simplices occur
-// more than once is first compacted (equal simplices summed, zeros
-// dropped), and grows only if that freed less than half of it. This bounds the heap by about twice the number of its
-// distinct nonzero entries, however many additions the column receives.
+// A heap of at least minCompact entries in which, judged from a sample,
+// a quarter or more of the entries repeat a simplex is first compacted
+// (equal simplices summed, zeros dropped), and grows only if that freed
+// less than half of it. A column whose additions cancel heavily (over
+// Z/2 especially) then stays near its number of distinct nonzero
+// entries. On the benchmark clouds checked (noisy circle, torus at
+// threshold 3.0) the entries were almost all distinct and it did not run.
 func (h *entryHeap) grow() {
 	if h.p != 0 && cap(h.a) >= minCompact && h.worthCompacting() {
 		h.compact(h.p)
