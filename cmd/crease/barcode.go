@@ -26,7 +26,7 @@ func init() {
 	})
 }
 
-const barcodeSynopsis = "POINTS.csv [--maxdim D] [--threshold T] [--metric euclidean|cosine|knn] [--k K] [--field P] [--landmarks M --seed S]"
+const barcodeSynopsis = "POINTS.csv [--maxdim D] [--threshold T] [--metric euclidean|cosine|knn] [--k K] [--field P] [--landmarks M --seed S] [--collapse]"
 
 // runBarcode reads one point per line (comma-separated; "-" is stdin) and
 // writes one bar per line: dim<TAB>birth<TAB>death, death "inf" for
@@ -41,6 +41,7 @@ func runBarcode(ctx context.Context, args []string, stdin io.Reader, stdout, std
 	field := fs.Int("field", 2, "prime p of the coefficients Z/p")
 	landmarks := fs.Int("landmarks", 0, "if > 0, compute on this many max–min landmarks")
 	seed := fs.Uint64("seed", 1, "seed of the first landmark")
+	collapse := fs.Bool("collapse", false, "edge-collapse the flag filtration first (same barcode, often much faster for H2 or dense clouds)")
 	pos, err := parseFlags(fs, args)
 	if err != nil {
 		return err
@@ -80,7 +81,7 @@ func runBarcode(ctx context.Context, args []string, stdin io.Reader, stdout, std
 		fmt.Fprintf(stderr, "crease barcode: %d landmarks of %d points, covering radius %.6g\n", len(idx), len(rows), radius)
 	}
 	set := &homology.Settings{MaxDim: *maxDim, Threshold: *threshold, Metric: m, K: *k, Field: *field}
-	bc, err := homology.Rips(ctx, x, set)
+	bc, err := barcodeOf(ctx, x, set, *collapse)
 	if err != nil {
 		return fmt.Errorf("%s: %w", name, err)
 	}
@@ -95,4 +96,21 @@ func runBarcode(ctx context.Context, args []string, stdin io.Reader, stdout, std
 		}
 	}
 	return w.Flush()
+}
+
+// barcodeOf computes the barcode of x, through the edge collapse of
+// homology.CollapseEdges when collapse is set.
+func barcodeOf(ctx context.Context, x mat.Matrix, set *homology.Settings, collapse bool) (*homology.Barcode, error) {
+	if !collapse {
+		return homology.Rips(ctx, x, set)
+	}
+	d, err := homology.PointDistances(ctx, x, set)
+	if err != nil {
+		return nil, err
+	}
+	s, err := homology.CollapseEdges(ctx, d, set.Threshold)
+	if err != nil {
+		return nil, err
+	}
+	return homology.RipsDistances(ctx, s, set)
 }

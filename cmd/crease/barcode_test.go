@@ -49,6 +49,15 @@ func TestBarcodeCLI(t *testing.T) {
 				lines := strings.Split(strings.TrimSpace(s), "\n")
 				return len(lines) == 8 && strings.HasPrefix(lines[6], "1\t") && strings.HasPrefix(lines[7], "2\t1.73205080756887")
 			}},
+		{name: "square collapsed", in: square, args: []string{"-", "--collapse"},
+			want: "0\t0\t1\n0\t0\t1\n0\t0\t1\n0\t0\tinf\n1\t1\t1.4142135623730951\n"},
+		{name: "square collapsed truncated", in: square, args: []string{"-", "--threshold", "1.2", "--collapse"},
+			want: "0\t0\t1\n0\t0\t1\n0\t0\t1\n0\t0\tinf\n1\t1\tinf\n"},
+		{name: "hexagon H2 collapsed", in: hex.String(), args: []string{"--maxdim", "2", "--collapse", "-"},
+			match: func(s string) bool {
+				lines := strings.Split(strings.TrimSpace(s), "\n")
+				return len(lines) == 8 && strings.HasPrefix(lines[6], "1\t1") && strings.Contains(lines[6], "\t1.73205080756887") && strings.HasPrefix(lines[7], "2\t1.73205080756887")
+			}},
 		{name: "landmarks", in: square, args: []string{"-", "--landmarks", "2", "--seed", "3"},
 			want: "0\t0\t1.4142135623730951\n0\t0\tinf\n"}, // max–min picks opposite corners
 	} {

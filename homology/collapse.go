@@ -1,0 +1,318 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package homology
+
+import (
+	"cmp"
+	"context"
+	"fmt"
+	"math"
+	"slices"
+)
+
+// CollapseEdges returns a sparse edge list whose Vietoris–Rips (flag)
+// filtration has the same persistence barcode as the input's up to
+// threshold (edges of length ≤ threshold), usually with far fewer edges.
+// Feed the result to RipsDistances with the same threshold. A threshold
+// of 0 or +Inf keeps every finite edge; negative values and NaN are
+// errors.
+//
+// The method is the edge collapse of J.-D. Boissonnat and S. Pritam,
+// "Edge collapse and persistence of flag complexes" (SoCG 2020): an edge
+// {a,b} of a graph G is dominated by a vertex w ∉ {a,b} when
+// N[a]∩N[b] ⊆ N[w] (closed neighbourhoods); removing a dominated edge
+// from the flag complex of G is a sequence of elementary collapses, so it
+// does not change the homotopy type. If an edge e of time t is dominated
+// in the graph G_t of the edges of time ≤ t, delaying e to the next time
+// of the filtration leaves every inclusion flag(G′_s) ⊆ flag(G_s) a
+// homotopy equivalence commuting with the inclusions in s, so the
+// persistence modules are isomorphic. As in the paper, the edges are
+// processed from the longest down: each is delayed while it stays
+// dominated in the current (already collapsed) later filtration, taking
+// as its new filtration value the first time it is no longer dominated,
+// and it is dropped when it stays dominated up to threshold. Only edges
+// at an end of e can end its domination (another edge leaves N[a]∩N[b]
+// unchanged and only enlarges N[w]), so only their times are tried. The
+// returned lengths are these (possibly later) filtration values, sorted.
+func CollapseEdges(ctx context.Context, d Distances, threshold float64) (*Sparse, error) {
+	if d == nil {
+		return nil, fmt.Errorf("%w: nil distances", ErrDistances)
+	}
+	if math.IsNaN(threshold) || threshold < 0 {
+		return nil, fmt.Errorf("%w: collapse threshold %v is negative or NaN", ErrSettings, threshold)
+	}
+	if threshold == 0 {
+		threshold = math.Inf(1)
+	}
+	n := d.Len()
+	edges, err := collapseInput(ctx, d, threshold)
+	if err != nil {
+		return nil, err
+	}
+	c := newCollapser(n, edges)
+	for k := len(edges) - 1; k >= 0; k-- {
+		if k%1024 == 0 {
+			if err := ctx.Err(); err != nil {
+				return nil, err
+			}
+		}
+		c.shift(int32(k))
+	}
+	out := make([]Edge, 0, len(edges)/4)
+	for k, e := range edges {
+		if t := c.time[k]; !math.IsInf(t, 1) {
+			out = append(out, Edge{I: int(e.a), J: int(e.b), D: t})
+		}
+	}
+	slices.SortStableFunc(out, func(x, y Edge) int { return cmp.Compare(x.D, y.D) })
+	return &Sparse{N: n, Edges: out}, nil
+}
+
+// cEdge is an edge of the collapse, a < b.
+type cEdge struct {
+	a, b int32
+	d    float64
+}
+
+// collapseInput lists the finite edges of length ≤ threshold, sorted by
+// (length, a, b), checking every value.
+func collapseInput(ctx context.Context, d Distances, threshold float64) ([]cEdge, error) {
+	var edges []cEdge
+	add := func(i, j int, v float64) error {
+		if math.IsNaN(v) || v < 0 {
+			return fmt.Errorf("%w: distance (%d,%d) is %v", ErrDistances, i, j, v)
+		}
+		if v <= threshold && !math.IsInf(v, 1) {
+			edges = append(edges, cEdge{int32(min(i, j)), int32(max(i, j)), v})
+		}
+		return nil
+	}
+	switch d := d.(type) {
+	case *Sparse:
+		if _, err := NewSparse(d.N, d.Edges); err != nil {
+			return nil, err
+		}
+		for _, e := range d.Edges {
+			if err := add(e.I, e.J, e.D); err != nil {
+				return nil, err
+			}
+		}
+	case *LowerTriangular:
+		if int64(len(d.Data)) != int64(d.N)*int64(d.N-1)/2 {
+			return nil, fmt.Errorf("%w: %d lower-triangular entries for %d points", ErrDistances, len(d.Data), d.N)
+		}
+		// Above the enclosing radius the complex is a cone: edges longer
+		// than it do not change the barcode.
+		if r, _ := enclosingRadius(d); r < threshold {
+			threshold = r
+		}
+		for i := 1; i < d.N; i++ {
+			if i%256 == 0 {
+				if err := ctx.Err(); err != nil {
+					return nil, err
+				}
+			}
+			for j, v := range d.Data[i*(i-1)/2 : i*(i-1)/2+i] {
+				if err := add(i, j, v); err != nil {
+					return nil, err
+				}
+			}
+		}
+	default:
+		n := d.Len()
+		for i := 1; i < n; i++ {
+			for j := 0; j < i; j++ {
+				if err := add(i, j, d.Dist(i, j)); err != nil {
+					return nil, err
+				}
+			}
+		}
+	}
+	slices.SortFunc(edges, func(x, y cEdge) int {
+		if c := cmp.Compare(x.d, y.d); c != 0 {
+			return c
+		}
+		if c := cmp.Compare(x.a, y.a); c != 0 {
+			return c
+		}
+		return cmp.Compare(x.b, y.b)
+	})
+	return edges, nil
+}
+
+// trimmed is the filtration value of an edge removed altogether.
+var trimmed = math.Inf(1)
+
+// collapser holds the state of the edge collapse: the current
+// filtration gives each edge a time; the graph at time s has the edges
+// of time ≤ s.
+type collapser struct {
+	edges []cEdge
+	time  []float64 // per edge: its current filtration value
+	nbr   [][]nb    // all edges at each vertex
+
+	dense []float64       // n×n edge times (+Inf none) when small enough
+	ids   map[int64]int32 // otherwise edge ids
+	n     int
+
+	cn []int32 // scratch: common neighbours
+}
+
+type nb struct{ v, id int32 }
+
+// denseLimit bounds the n×n time table (128 MiB).
+const denseLimit = 4096
+
+func newCollapser(n int, edges []cEdge) *collapser {
+	c := &collapser{
+		edges: edges,
+		time:  make([]float64, len(edges)),
+		nbr:   make([][]nb, n),
+		n:     n,
+	}
+	deg := make([]int32, n)
+	for _, e := range edges {
+		deg[e.a]++
+		deg[e.b]++
+	}
+	for v := range c.nbr {
+		c.nbr[v] = make([]nb, 0, deg[v])
+	}
+	if n <= denseLimit {
+		c.dense = make([]float64, n*n)
+		for i := range c.dense {
+			c.dense[i] = math.Inf(1)
+		}
+	} else {
+		c.ids = make(map[int64]int32, len(edges))
+	}
+	for k, e := range edges {
+		c.time[k] = e.d
+		c.nbr[e.a] = append(c.nbr[e.a], nb{e.b, int32(k)})
+		c.nbr[e.b] = append(c.nbr[e.b], nb{e.a, int32(k)})
+		if c.dense != nil {
+			c.dense[int(e.a)*n+int(e.b)] = e.d
+			c.dense[int(e.b)*n+int(e.a)] = e.d
+		} else {
+			c.ids[int64(e.a)*int64(n)+int64(e.b)] = int32(k)
+		}
+	}
+	for _, l := range c.nbr {
+		slices.SortFunc(l, func(x, y nb) int { return cmp.Compare(x.v, y.v) })
+	}
+	return c
+}
+
+// setTime sets the current filtration value of edge k.
+func (c *collapser) setTime(k int32, t float64) {
+	c.time[k] = t
+	if c.dense != nil {
+		e := c.edges[k]
+		c.dense[int(e.a)*c.n+int(e.b)] = t
+		c.dense[int(e.b)*c.n+int(e.a)] = t
+	}
+}
+
+// id returns the edge id of {u,v}, or −1 (sparse table only).
+func (c *collapser) id(u, v int32) int32 {
+	if u > v {
+		u, v = v, u
+	}
+	if k, ok := c.ids[int64(u)*int64(c.n)+int64(v)]; ok {
+		return k
+	}
+	return -1
+}
+
+// in reports whether u = v or the edge {u,v} is in the graph at time s.
+func (c *collapser) in(u, v int32, s float64) bool {
+	if u == v {
+		return true
+	}
+	if c.dense != nil {
+		return c.dense[int(u)*c.n+int(v)] <= s
+	}
+	k := c.id(u, v)
+	return k >= 0 && c.time[k] <= s
+}
+
+// dominated looks for a vertex w ∉ {a,b} with N[a]∩N[b] ⊆ N[w] in the
+// graph at time s and returns it, or −1.
+func (c *collapser) dominated(a, b int32, s float64) int32 {
+	// Merge the neighbour lists, sorted by vertex.
+	c.cn = c.cn[:0]
+	la, lb := c.nbr[a], c.nbr[b]
+	for i, j := 0, 0; i < len(la) && j < len(lb); {
+		switch x, y := la[i], lb[j]; {
+		case x.v < y.v:
+			i++
+		case x.v > y.v:
+			j++
+		default:
+			if c.time[x.id] <= s && c.time[y.id] <= s {
+				c.cn = append(c.cn, x.v)
+			}
+			i++
+			j++
+		}
+	}
+	// a and b are adjacent to every candidate, so only the other common
+	// neighbours need checking. The lists are sorted by vertex, so the
+	// look-ups run along one row of the time table.
+	for _, w := range c.cn {
+		ok := true
+		for _, x := range c.cn {
+			if !c.in(w, x, s) {
+				ok = false
+				break
+			}
+		}
+		if ok {
+			return w
+		}
+	}
+	return -1
+}
+
+// shift moves edge k to the first time at or after its own at which it
+// is not dominated in the current filtration, or trims it when it stays
+// dominated to the end. Only the edges at its ends can end a domination
+// (an edge elsewhere leaves N[a]∩N[b] unchanged and only enlarges the
+// witness's neighbourhood), so the times tried are the later times of
+// those edges.
+func (c *collapser) shift(k int32) {
+	e := c.edges[k]
+	s := c.time[k]
+	w := c.dominated(e.a, e.b, s)
+	if w < 0 {
+		return
+	}
+	for {
+		// The first later time at which an edge at an end brings a common
+		// neighbour that w does not see; w dominates until then.
+		next := math.Inf(1)
+		for _, end := range [2]int32{e.a, e.b} {
+			other := e.a + e.b - end
+			for _, x := range c.nbr[end] {
+				t := c.time[x.id]
+				if t <= s || t >= next || x.v == other {
+					continue
+				}
+				if c.in(other, x.v, t) && !c.in(w, x.v, t) {
+					next = t
+				}
+			}
+		}
+		if math.IsInf(next, 1) {
+			break
+		}
+		s = next
+		if w = c.dominated(e.a, e.b, s); w < 0 {
+			c.setTime(k, s)
+			return
+		}
+	}
+	c.setTime(k, trimmed)
+}
