@@ -32,7 +32,8 @@
 # GUDHI_MEM_GB (default 8), ITER (collapse_edges iterations, default 1),
 # SLOW (default 60: a program whose run took longer than SLOW seconds is
 # not run again for that case), MODES (default "rips ec": the GUDHI paths
-# to time; empty times crease alone).
+# to time; empty times crease alone), CREASE_FLAGS (extra flags for
+# crease barcode, e.g. --collapse).
 set -euo pipefail
 cd "$(dirname "$0")/.."
 
@@ -42,6 +43,7 @@ GUDHI_MEM_GB=${GUDHI_MEM_GB:-8}
 ITER=${ITER:-1}
 SLOW=${SLOW:-60}
 MODES=${MODES-rips ec}
+CREASE_FLAGS=${CREASE_FLAGS:-}
 FILTER=${1:-.}
 PY=/usr/bin/python3
 DATA=testdata/homology/bench
@@ -153,7 +155,7 @@ ratio() { # crease-wall other-wall other-status
 }
 
 echo "# bench/homology.sh $(date -u '+%Y-%m-%d %H:%M UTC'), $(nproc) cores, load average at start: $(cut -d' ' -f1-3 /proc/loadavg)"
-echo "# $(go version | cut -d' ' -f3), gudhi $("$PY" -c 'import gudhi; print(gudhi.__version__)'), RUNS=$RUNS, collapse_edges(nb_iterations=$ITER), GUDHI limits ${GUDHI_TIMEOUT} s / ${GUDHI_MEM_GB} GB"
+echo "# $(go version | cut -d' ' -f3), gudhi $("$PY" -c 'import gudhi; print(gudhi.__version__)'), RUNS=$RUNS, crease flags: ${CREASE_FLAGS:-none}, collapse_edges(nb_iterations=$ITER), GUDHI limits ${GUDHI_TIMEOUT} s / ${GUDHI_MEM_GB} GB"
 echo
 head="| case | crease"
 rule="|---|---"
@@ -167,6 +169,8 @@ for c in "${cases[@]}"; do
 	key=${name//\//_}
 	args=(barcode "$DATA/$file" --maxdim "$maxdim")
 	if [ "$thr" != 0 ]; then args+=(--threshold "$thr"); fi
+	# shellcheck disable=SC2206 # split the extra flags on purpose
+	args+=($CREASE_FLAGS)
 	for _ in $(seq "$RUNS"); do
 		timed "$key.crease" "$tmp/crease" "${args[@]}"
 		if slow "$key.crease"; then break; fi
