@@ -52,13 +52,23 @@ func CollapseEdges(ctx context.Context, d Distances, threshold float64) (*Sparse
 		return nil, err
 	}
 	c := newCollapser(n, edges)
+	dead := 0
+	live := func(k, m int) int { return k + (m-k)/8 }
 	for k := len(edges) - 1; k >= 0; k-- {
 		if k%1024 == 0 {
 			if err := ctx.Err(); err != nil {
 				return nil, err
 			}
 		}
-		c.shift(int32(k))
+		if c.shift(int32(k)) {
+			dead++
+			// Dropped edges never return: squeeze them out of the lists
+			// once they are most of them (amortised linear).
+			if dead > len(edges)/16 && dead > live(k, len(edges)) {
+				c.compact()
+				dead = 0
+			}
+		}
 	}
 	out := make([]Edge, 0, len(edges)/4)
 	for k, e := range edges {
@@ -150,8 +160,9 @@ var trimmed = math.Inf(1)
 // of time ≤ s.
 type collapser struct {
 	edges []cEdge
-	time  []float64 // per edge: its current filtration value
-	nbr   [][]nb    // all edges at each vertex
+	time  []float64  // per edge: its current filtration value
+	nbr   [][]nb     // all edges at each vertex, sorted by vertex
+	at    [][2]int32 // per edge: its index in the lists of a and of b
 
 	dense []float64       // n×n edge times (+Inf none) when small enough
 	ids   map[int64]int32 // otherwise edge ids
@@ -160,10 +171,15 @@ type collapser struct {
 	cn []int32 // scratch: common neighbours
 }
 
-type nb struct{ v, id int32 }
+// nb is an edge at a vertex: the other end, the edge id and the edge's
+// current time (kept here too so that list scans stay sequential).
+type nb struct {
+	v, id int32
+	t     float64
+}
 
 // denseLimit bounds the n×n time table (128 MiB).
-const denseLimit = 4096
+var denseLimit = 4096
 
 func newCollapser(n int, edges []cEdge) *collapser {
 	c := &collapser{
@@ -190,8 +206,8 @@ func newCollapser(n int, edges []cEdge) *collapser {
 	}
 	for k, e := range edges {
 		c.time[k] = e.d
-		c.nbr[e.a] = append(c.nbr[e.a], nb{e.b, int32(k)})
-		c.nbr[e.b] = append(c.nbr[e.b], nb{e.a, int32(k)})
+		c.nbr[e.a] = append(c.nbr[e.a], nb{e.b, int32(k), e.d})
+		c.nbr[e.b] = append(c.nbr[e.b], nb{e.a, int32(k), e.d})
 		if c.dense != nil {
 			c.dense[int(e.a)*n+int(e.b)] = e.d
 			c.dense[int(e.b)*n+int(e.a)] = e.d
@@ -199,17 +215,21 @@ func newCollapser(n int, edges []cEdge) *collapser {
 			c.ids[int64(e.a)*int64(n)+int64(e.b)] = int32(k)
 		}
 	}
+	c.at = make([][2]int32, len(edges))
 	for _, l := range c.nbr {
 		slices.SortFunc(l, func(x, y nb) int { return cmp.Compare(x.v, y.v) })
 	}
+	c.reindex()
 	return c
 }
 
 // setTime sets the current filtration value of edge k.
 func (c *collapser) setTime(k int32, t float64) {
 	c.time[k] = t
+	e := c.edges[k]
+	c.nbr[e.a][c.at[k][0]].t = t
+	c.nbr[e.b][c.at[k][1]].t = t
 	if c.dense != nil {
-		e := c.edges[k]
 		c.dense[int(e.a)*c.n+int(e.b)] = t
 		c.dense[int(e.b)*c.n+int(e.a)] = t
 	}
@@ -251,7 +271,7 @@ func (c *collapser) dominated(a, b int32, s float64) int32 {
 		case x.v > y.v:
 			j++
 		default:
-			if c.time[x.id] <= s && c.time[y.id] <= s {
+			if x.t <= s && y.t <= s {
 				c.cn = append(c.cn, x.v)
 			}
 			i++
@@ -282,12 +302,12 @@ func (c *collapser) dominated(a, b int32, s float64) int32 {
 // (an edge elsewhere leaves N[a]∩N[b] unchanged and only enlarges the
 // witness's neighbourhood), so the times tried are the later times of
 // those edges.
-func (c *collapser) shift(k int32) {
+func (c *collapser) shift(k int32) (dropped bool) {
 	e := c.edges[k]
 	s := c.time[k]
 	w := c.dominated(e.a, e.b, s)
 	if w < 0 {
-		return
+		return false
 	}
 	for {
 		// The first later time at which an edge at an end brings a common
@@ -296,7 +316,7 @@ func (c *collapser) shift(k int32) {
 		for _, end := range [2]int32{e.a, e.b} {
 			other := e.a + e.b - end
 			for _, x := range c.nbr[end] {
-				t := c.time[x.id]
+				t := x.t
 				if t <= s || t >= next || x.v == other {
 					continue
 				}
@@ -311,8 +331,30 @@ func (c *collapser) shift(k int32) {
 		s = next
 		if w = c.dominated(e.a, e.b, s); w < 0 {
 			c.setTime(k, s)
-			return
+			return false
 		}
 	}
 	c.setTime(k, trimmed)
+	return true
+}
+
+// compact removes the dropped edges from the neighbour lists.
+func (c *collapser) compact() {
+	for u, l := range c.nbr {
+		c.nbr[u] = slices.DeleteFunc(l, func(x nb) bool { return math.IsInf(x.t, 1) })
+	}
+	c.reindex()
+}
+
+// reindex records where each edge sits in the lists of its ends.
+func (c *collapser) reindex() {
+	for u, l := range c.nbr {
+		for i, x := range l {
+			if c.edges[x.id].a == int32(u) {
+				c.at[x.id][0] = int32(i)
+			} else {
+				c.at[x.id][1] = int32(i)
+			}
+		}
+	}
 }

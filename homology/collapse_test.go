@@ -99,6 +99,21 @@ func TestCollapseRandom(t *testing.T) {
 	}
 }
 
+// TestCollapseSparseTable runs random clouds through the hash-table
+// edge index used for large clouds.
+func TestCollapseSparseTable(t *testing.T) {
+	defer func(l int) { denseLimit = l }(denseLimit)
+	denseLimit = 0
+	rng := rand.New(rand.NewPCG(5, 6))
+	for trial := 0; trial < 60; trial++ {
+		pts := make([][]float64, 4+rng.IntN(25))
+		for i := range pts {
+			pts[i] = []float64{rng.Float64(), rng.Float64(), float64(rng.IntN(2))}
+		}
+		checkCollapse(t, pts, 2, 0.3+rng.Float64(), 2)
+	}
+}
+
 // TestCollapseShrinks checks that the collapse removes edges where a
 // flag complex is far from minimal: on a dense cloud at the enclosing
 // radius, the complex is a cone, and nearly every edge is dominated.
