@@ -67,6 +67,10 @@ type engine struct {
 	nbStart []int
 	nbIdx   []int32
 	nbDist  []float64
+	// nbRank holds the filtration ranks of the lengths in nbDist: their
+	// positions in lengths, the sorted distinct edge lengths.
+	nbRank  []uint32
+	lengths []float64
 
 	edges []simplex // all edges within the threshold
 
@@ -300,6 +304,36 @@ func (e *engine) checkEdgeBudget(m int64, already int64) error {
 	return nil
 }
 
+// makeRanks fills e.lengths with the distinct edge lengths, sorted, and
+// e.nbRank with the ranks of the neighbour distances. The edges must be
+// sorted by length.
+func (e *engine) makeRanks() {
+	e.lengths = e.lengths[:0]
+	for i, s := range e.edges {
+		if i == 0 || s.d != e.edges[i-1].d {
+			e.lengths = append(e.lengths, s.d)
+		}
+	}
+	e.nbRank = make([]uint32, len(e.nbDist))
+	for i, d := range e.nbDist {
+		e.nbRank[i] = e.rankOf(d)
+	}
+}
+
+// rankOf returns the filtration rank of d, an edge length.
+func (e *engine) rankOf(d float64) uint32 {
+	l, h := 0, len(e.lengths)
+	for l < h {
+		m := int(uint(l+h) >> 1)
+		if e.lengths[m] < d {
+			l = m + 1
+		} else {
+			h = m
+		}
+	}
+	return uint32(l)
+}
+
 // dist returns the length of edge {a,b}; it is meant for edges of
 // simplices within the threshold (otherwise it may return the length
 // or +Inf).
@@ -382,6 +416,8 @@ type cofaces struct {
 	k     int
 	lead  int
 	sd    float64
+	sr    uint32 // rank of the diameter of the simplex
+	r     uint32 // rank of the diameter of the last coface returned
 	p     int
 	above int64
 	below int64
@@ -395,6 +431,7 @@ func (it *cofaces) set(s simplex, k int, topOnly bool) {
 	e := it.e
 	it.k = k
 	it.sd = s.d
+	it.sr = e.rankOf(s.d)
 	e.vertices(s.i, k, it.w[:k])
 	it.p = 0
 	it.above = 0
@@ -425,7 +462,11 @@ func (it *cofaces) next() (simplex, bool, bool) {
 			it.cur[l] = it.end[l]
 			break
 		}
+		// The diameter and its rank (both read sequentially along the
+		// neighbour lists: looking the length up from the rank would be a
+		// cache miss per coface).
 		diam := max(it.sd, e.nbDist[c])
+		r := max(it.sr, e.nbRank[c])
 		it.cur[l] = c + 1
 		ok := true
 		for q := 0; q < it.k; q++ {
@@ -447,6 +488,7 @@ func (it *cofaces) next() (simplex, bool, bool) {
 			}
 			if d := e.nbDist[cq]; d > diam {
 				diam = d
+				r = e.nbRank[cq]
 			}
 		}
 		if !ok {
@@ -461,6 +503,7 @@ func (it *cofaces) next() (simplex, bool, bool) {
 		}
 		t := it.k - it.p
 		e.work++
+		it.r = r
 		return simplex{diam, it.above + e.binom[t+1][j] + it.below}, t&1 == 1, true
 	}
 	return simplex{}, false, false

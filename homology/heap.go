@@ -197,16 +197,21 @@ func (h *entryHeap) compact(p int64) {
 	h.a = out
 }
 
-// worthCompacting estimates, from the multiplicities in the heap of the
-// simplices of a sample of its entries, whether compaction would remove
-// at least a quarter of the entries. It costs one scan of the heap, far
-// less than the sort.
+// worthCompacting reports whether compacting h would remove at least a
+// quarter of its entries (see worthCompacting).
 func (h *entryHeap) worthCompacting() bool {
+	return worthCompacting(h.a, func(x entry) uint64 { return x.k >> coefBits })
+}
+
+// worthCompacting estimates, from the multiplicities in a of the
+// simplices (named by key) of a sample of its entries, whether
+// compaction would remove at least a quarter of the entries. It costs
+// one scan of a, far less than the sort.
+func worthCompacting[T any](a []T, key func(T) uint64) bool {
 	const samples = 1024
 	const slots = 4 * samples
-	var keys [slots]uint64 // index+1; 0 marks an empty slot
+	var keys [slots]uint64 // key+1; 0 marks an empty slot
 	var count [slots]int32
-	a := h.a
 	step := len(a) / samples
 	if step == 0 {
 		return false
@@ -219,11 +224,11 @@ func (h *entryHeap) worthCompacting() bool {
 		}
 	}
 	for s := 0; s < samples; s++ {
-		k := a[s*step].k>>coefBits + 1
+		k := key(a[s*step]) + 1
 		keys[slot(k)] = k
 	}
 	for i := range a {
-		k := a[i].k>>coefBits + 1
+		k := key(a[i]) + 1
 		if j := slot(k); keys[j] == k {
 			count[j]++
 		}
@@ -232,7 +237,7 @@ func (h *entryHeap) worthCompacting() bool {
 	// chosen entry survives with probability at most 1/m.
 	kept := 0.0
 	for s := 0; s < samples; s++ {
-		kept += 1 / float64(count[slot(a[s*step].k>>coefBits+1)])
+		kept += 1 / float64(count[slot(key(a[s*step])+1)])
 	}
 	return kept <= 0.75*samples
 }

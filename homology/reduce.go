@@ -25,6 +25,10 @@ func filtrationOrder(a, b simplex) int {
 // reverseOrder is the order in which cohomology columns are reduced.
 func reverseOrder(a, b simplex) int { return filtrationOrder(b, a) }
 
+// packKeys enables one-word working-column entries (keyHeap) where they
+// fit; tests turn it off to check the 16-byte path.
+var packKeys = true
+
 // run computes the bars of dimensions 0..maxDim.
 func (e *engine) run() ([][]Bar, error) {
 	bars := make([][]Bar, e.maxDim+1)
@@ -38,6 +42,7 @@ func (e *engine) run() ([][]Bar, error) {
 	if err := parallelSort(e.ctx, e.edges, filtrationOrder); err != nil {
 		return nil, err
 	}
+	e.makeRanks()
 	var columns []simplex
 	var err error
 	bars[0], columns, err = e.dim0()
@@ -137,6 +142,9 @@ func (e *engine) reduce(columns []simplex, d int, pm *pivotMap) ([]Bar, error) {
 	it := &cofaces{e: e}
 	ait := &cofaces{e: e}
 	cob, red := entryHeap{p: p}, entryHeap{p: p}
+	// kob replaces cob when its entries pack into one word.
+	kob, packed := newKeyHeap(p, e.binom[k+1][e.n], len(e.lengths))
+	packed = packed && packKeys
 	// The reduction matrix: for column c, the simplices added to it (other
 	// than itself) are vEnt[vStart[c]:vStart[c+1]].
 	vStart := make([]int, len(columns)+1)
@@ -156,7 +164,11 @@ func (e *engine) reduce(columns []simplex, d int, pm *pivotMap) ([]Bar, error) {
 			if neg {
 				cf = p - f
 			}
-			cob.push(mkEntry(c.d, c.i, cf))
+			if packed {
+				kob.push(kob.key(it.r, c.i, cf))
+			} else {
+				cob.push(mkEntry(c.d, c.i, cf))
+			}
 		}
 	}
 	for ci, col := range columns {
@@ -165,12 +177,13 @@ func (e *engine) reduce(columns []simplex, d int, pm *pivotMap) ([]Bar, error) {
 			if err := e.tick(); err != nil {
 				return nil, err
 			}
-			if est := int64(cap(cob.a)+cap(red.a)+cap(vEnt)) * 16; est > e.budget {
+			if est := int64(cap(cob.a)+cap(red.a)+cap(vEnt))*16 + int64(cap(kob.a))*8; est > e.budget {
 				return nil, &MemoryError{Estimate: est, Budget: e.budget, Points: e.n,
 					What: fmt.Sprintf("reducing the H%d columns", d)}
 			}
 		}
 		cob.reset()
+		kob.reset()
 		red.reset()
 		// Enumerate the coboundary; stop at an emergent pair: the first
 		// coface of the same diameter is the pivot, and if no other column
@@ -198,15 +211,29 @@ func (e *engine) reduce(columns []simplex, d int, pm *pivotMap) ([]Bar, error) {
 					}
 				}
 			}
-			cob.add(mkEntry(c.d, c.i, cf))
+			if packed {
+				kob.add(kob.key(it.r, c.i, cf))
+			} else {
+				cob.add(mkEntry(c.d, c.i, cf))
+			}
 		}
 		if settled {
 			vStart[ci+1] = len(vEnt)
 			continue
 		}
 		cob.heapify()
+		kob.heapify()
 		for {
-			piv, ok := cob.pivot(p)
+			var piv entry
+			var ok bool
+			if packed {
+				var x uint64
+				if x, ok = kob.pivot(); ok {
+					piv = mkEntry(e.lengths[kob.rank(x)], kob.idx(x), kob.coef(x))
+				}
+			} else {
+				piv, ok = cob.pivot(p)
+			}
 			if !ok {
 				bars = append(bars, Bar{col.d, math.Inf(1)})
 				break
