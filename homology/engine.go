@@ -315,8 +315,32 @@ func (e *engine) makeRanks() {
 		}
 	}
 	e.nbRank = make([]uint32, len(e.nbDist))
-	for i, d := range e.nbDist {
-		e.nbRank[i] = e.rankOf(d)
+	if e.tri == nil {
+		for i, d := range e.nbDist {
+			e.nbRank[i] = e.rankOf(d)
+		}
+		return
+	}
+	// With all distances held (8 bytes a pair) a 4-byte rank per pair
+	// is affordable for a moment, and much cheaper to fill and read than
+	// a binary search per neighbour: the ranks of the sorted edges are
+	// consecutive, and a vertex's list reads the array mostly in order.
+	rankOf := make([]uint32, len(e.tri))
+	r := uint32(0)
+	for i, s := range e.edges {
+		if i > 0 && s.d != e.edges[i-1].d {
+			r++
+		}
+		rankOf[s.i] = r
+	}
+	for v := 0; v < e.n; v++ {
+		for c := e.nbStart[v]; c < e.nbStart[v+1]; c++ {
+			a, b := v, int(e.nbIdx[c])
+			if a < b {
+				a, b = b, a
+			}
+			e.nbRank[c] = rankOf[a*(a-1)/2+b]
+		}
 	}
 }
 
