@@ -9,6 +9,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"math/bits"
 	"slices"
 )
 
@@ -51,6 +52,9 @@ func CollapseEdges(ctx context.Context, d Distances, threshold float64) (*Sparse
 	if err != nil {
 		return nil, err
 	}
+	if n <= denseLimit {
+		return collapseDense(ctx, n, edges)
+	}
 	c := newCollapser(n, edges)
 	dead := 0
 	live := func(k, m int) int { return k + (m-k)/8 }
@@ -70,14 +74,171 @@ func CollapseEdges(ctx context.Context, d Distances, threshold float64) (*Sparse
 			}
 		}
 	}
+	return collapseOutput(n, edges, c.time), nil
+}
+
+// collapseOutput lists the edges that were not trimmed with their new
+// filtration values, sorted stably by value.
+func collapseOutput(n int, edges []cEdge, time []float64) *Sparse {
 	out := make([]Edge, 0, len(edges)/4)
 	for k, e := range edges {
-		if t := c.time[k]; !math.IsInf(t, 1) {
+		if t := time[k]; !math.IsInf(t, 1) {
 			out = append(out, Edge{I: int(e.a), J: int(e.b), D: t})
 		}
 	}
 	slices.SortStableFunc(out, func(x, y Edge) int { return cmp.Compare(x.D, y.D) })
-	return &Sparse{N: n, Edges: out}, nil
+	return &Sparse{N: n, Edges: out}
+}
+
+// collapseDense is the collapse for n ≤ denseLimit. It computes the same
+// filtration values as the list-based collapser, faster: when edge k is
+// processed, every edge of lower index still has its input length (at
+// most e_k's), so the graph at any time s ≥ e_k is the bitset "low" of
+// those edges plus the processed edges kept so far ("up", usually few)
+// of time ≤ s. Neighbourhood intersections and subset tests are then
+// word operations on n-bit rows, and the search for the end of a
+// domination scans only the short "up" lists.
+func collapseDense(ctx context.Context, n int, edges []cEdge) (*Sparse, error) {
+	words := (n + 63) / 64
+	c := &bitCollapser{
+		edges: edges,
+		time:  make([]float64, len(edges)),
+		dense: make([]float64, n*n),
+		n:     n,
+		words: words,
+		low:   make([]uint64, n*words),
+		up:    make([][]nb, n),
+		ca:    make([]uint64, words),
+		cb:    make([]uint64, words),
+		cn:    make([]uint64, words),
+	}
+	for i := range c.dense {
+		c.dense[i] = math.Inf(1)
+	}
+	for k, e := range edges {
+		c.time[k] = e.d
+		c.dense[int(e.a)*n+int(e.b)] = e.d
+		c.dense[int(e.b)*n+int(e.a)] = e.d
+		c.low[int(e.a)*words+int(e.b)>>6] |= 1 << (uint(e.b) & 63)
+		c.low[int(e.b)*words+int(e.a)>>6] |= 1 << (uint(e.a) & 63)
+	}
+	for k := len(edges) - 1; k >= 0; k-- {
+		if k%1024 == 0 {
+			if err := ctx.Err(); err != nil {
+				return nil, err
+			}
+		}
+		c.step(int32(k))
+	}
+	return collapseOutput(n, edges, c.time), nil
+}
+
+// bitCollapser holds the state of collapseDense.
+type bitCollapser struct {
+	edges    []cEdge
+	time     []float64 // per edge: its current filtration value
+	dense    []float64 // n×n current edge times (+Inf none)
+	n, words int
+	low      []uint64 // n rows of words: neighbours by edges of index < k
+	up       [][]nb   // per vertex: processed edges kept, with final times
+	ca, cb   []uint64 // scratch rows
+	cn       []uint64 // scratch: common neighbours
+}
+
+// setTime sets the filtration value of edge k.
+func (c *bitCollapser) setTime(k int32, t float64) {
+	e := c.edges[k]
+	c.time[k] = t
+	c.dense[int(e.a)*c.n+int(e.b)] = t
+	c.dense[int(e.b)*c.n+int(e.a)] = t
+}
+
+// step processes edge k (all edges of higher index are done): it delays
+// the edge to the first time at which it is not dominated, or trims it;
+// see collapser.shift, which it mirrors.
+func (c *bitCollapser) step(k int32) {
+	e := c.edges[k]
+	n, words := c.n, c.words
+	c.low[int(e.a)*words+int(e.b)>>6] &^= 1 << (uint(e.b) & 63)
+	c.low[int(e.b)*words+int(e.a)>>6] &^= 1 << (uint(e.a) & 63)
+	s := e.d
+	if w := c.dominated(e.a, e.b, s); w >= 0 {
+		for {
+			next := math.Inf(1)
+			for _, end := range [2]int32{e.a, e.b} {
+				other := e.a + e.b - end
+				ro := c.dense[int(other)*n : int(other)*n+n]
+				rw := c.dense[int(w)*n : int(w)*n+n]
+				for _, x := range c.up[end] {
+					t := x.t
+					if t <= s || t >= next || x.v == other {
+						continue
+					}
+					if ro[x.v] <= t && x.v != w && rw[x.v] > t {
+						next = t
+					}
+				}
+			}
+			if math.IsInf(next, 1) {
+				c.setTime(k, trimmed)
+				return
+			}
+			s = next
+			if w = c.dominated(e.a, e.b, s); w < 0 {
+				c.setTime(k, s)
+				break
+			}
+		}
+	}
+	t := c.time[k]
+	c.up[e.a] = append(c.up[e.a], nb{e.b, k, t})
+	c.up[e.b] = append(c.up[e.b], nb{e.a, k, t})
+}
+
+// row fills dst with the neighbours of u in the graph at time s.
+func (c *bitCollapser) row(dst []uint64, u int32, s float64) {
+	copy(dst, c.low[int(u)*c.words:int(u)*c.words+c.words])
+	for _, x := range c.up[u] {
+		if x.t <= s {
+			dst[x.v>>6] |= 1 << (uint(x.v) & 63)
+		}
+	}
+}
+
+// dominated returns the least vertex w ∉ {a,b} with N[a]∩N[b] ⊆ N[w] in
+// the graph at time s, or −1.
+func (c *bitCollapser) dominated(a, b int32, s float64) int32 {
+	c.row(c.ca, a, s)
+	c.row(c.cb, b, s)
+	cn := c.cn
+	for i := range cn {
+		cn[i] = c.ca[i] & c.cb[i]
+	}
+	// a and b are adjacent to every candidate, so only the other common
+	// neighbours need checking: those not in w's low row must be joined
+	// to w by a processed edge of time ≤ s.
+	for i, word := range cn {
+		for ; word != 0; word &= word - 1 {
+			w := i<<6 | bits.TrailingZeros64(word)
+			low := c.low[w*c.words : w*c.words+c.words]
+			rw := c.dense[w*c.n : w*c.n+c.n]
+			ok := true
+		check:
+			for j, m := range cn {
+				for r := m &^ low[j]; r != 0; r &= r - 1 {
+					x := j<<6 | bits.TrailingZeros64(r)
+					if x != w && rw[x] > s {
+						ok = false
+						break check
+					}
+				}
+			}
+			if ok {
+				return int32(w)
+			}
+		}
+	}
+	return -1
 }
 
 // cEdge is an edge of the collapse, a < b.
