@@ -177,7 +177,9 @@ func (e *engine) buildFromTriangle(t *LowerTriangular) error {
 			}
 		}
 	}
-	if err := e.checkEdgeBudget(m, int64(len(t.Data))*8); err != nil {
+	// The distances (8 bytes a pair), and for a moment the ranks of all
+	// pairs (4 bytes, see makeRanks).
+	if err := e.checkEdgeBudget(m, int64(len(t.Data))*12); err != nil {
 		return err
 	}
 	e.allocLists(deg, m)
@@ -291,9 +293,9 @@ func (e *engine) allocLists(deg []int, m int64) {
 }
 
 // edgeBytes is the estimated memory per edge within the threshold:
-// neighbour lists (2×12), the edge list (16), a column (16) and pivot
-// map slots (32).
-const edgeBytes = 24 + 16 + 16 + 32
+// neighbour lists (2×16: index, length, rank), the edge list (16), a
+// column (16) and pivot map slots (32).
+const edgeBytes = 32 + 16 + 16 + 32
 
 func (e *engine) checkEdgeBudget(m int64, already int64) error {
 	est := already + m*edgeBytes + int64(e.n)*64
