@@ -16,7 +16,6 @@ import (
 	"gonum.org/v1/gonum/mat"
 
 	"crease.dev/crease/homology"
-	"crease.dev/crease/internal/csvnum"
 )
 
 func init() {
@@ -58,28 +57,20 @@ func runBarcode(ctx context.Context, args []string, stdin io.Reader, stdout, std
 	if *landmarks < 0 {
 		return fmt.Errorf("--landmarks %d is negative", *landmarks)
 	}
-	r, closeIn, name, err := openInput(pos[0], stdin)
+	pts, name, err := readPoints(pos[0], stdin)
 	if err != nil {
 		return err
 	}
-	rows, width, err := csvnum.Read(r, name, nil)
-	closeIn()
-	if err != nil {
-		return err
-	}
-	pts := mat.NewDense(len(rows), width, nil)
-	for i, row := range rows {
-		pts.SetRow(i, row)
-	}
+	n, width := pts.Dims()
 	var x mat.Matrix = pts
-	if *landmarks > 0 && *landmarks < len(rows) {
+	if *landmarks > 0 && *landmarks < n {
 		idx, radius := homology.Landmarks(pts, *landmarks, *seed)
 		sub := mat.NewDense(len(idx), width, nil)
 		for i, j := range idx {
-			sub.SetRow(i, rows[j])
+			sub.SetRow(i, pts.RawRowView(j))
 		}
 		x = sub
-		fmt.Fprintf(stderr, "crease barcode: %d landmarks of %d points, covering radius %.6g\n", len(idx), len(rows), radius)
+		fmt.Fprintf(stderr, "crease barcode: %d landmarks of %d points, covering radius %.6g\n", len(idx), n, radius)
 	}
 	set := &homology.Settings{MaxDim: *maxDim, Threshold: *threshold, Metric: m, K: *k, Field: *field}
 	// Edge collapse pays off where the reduction of triangles and

@@ -9,6 +9,10 @@ import (
 	"flag"
 	"fmt"
 	"io"
+
+	"gonum.org/v1/gonum/mat"
+
+	"crease.dev/crease/internal/csvnum"
 )
 
 // newFlagSet returns a flag set for a subcommand whose errors and help go
@@ -45,4 +49,23 @@ func parseFlags(fs *flag.FlagSet, args []string) ([]string, error) {
 		pos = append(pos, args[0])
 		args = args[1:]
 	}
+}
+
+// readPoints reads the numeric table arg ("-" is stdin) into a matrix,
+// one row per line. It returns the name to use in messages.
+func readPoints(arg string, stdin io.Reader) (*mat.Dense, string, error) {
+	r, closeIn, name, err := openInput(arg, stdin)
+	if err != nil {
+		return nil, name, err
+	}
+	rows, width, err := csvnum.Read(r, name, nil)
+	closeIn()
+	if err != nil {
+		return nil, name, err
+	}
+	x := mat.NewDense(len(rows), width, nil)
+	for i, row := range rows {
+		x.SetRow(i, row)
+	}
+	return x, name, nil
 }

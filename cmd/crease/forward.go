@@ -13,7 +13,6 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
-	"crease.dev/crease/internal/csvnum"
 	"crease.dev/crease/onnxload"
 )
 
@@ -48,21 +47,12 @@ func runForward(ctx context.Context, args []string, stdin io.Reader, stdout, std
 	if k < 0 || k >= len(stages) {
 		return fmt.Errorf("--stage %d is out of range: %s has %d stages (0 to %d)", *stage, pos[0], len(stages), len(stages)-1)
 	}
-	r, closeIn, name, err := openInput(pos[1], stdin)
+	x, name, err := readPoints(pos[1], stdin)
 	if err != nil {
 		return err
 	}
-	rows, width, err := csvnum.Read(r, name, nil)
-	closeIn()
-	if err != nil {
-		return err
-	}
-	if width != stages[0].In {
+	if _, width := x.Dims(); width != stages[0].In {
 		return fmt.Errorf("%s has %d columns but %s takes inputs of width %d", name, width, pos[0], stages[0].In)
-	}
-	x := mat.NewDense(len(rows), width, nil)
-	for i, row := range rows {
-		x.SetRow(i, row)
 	}
 	outs, err := onnxload.Forward(ctx, stages[:k+1], x, nil)
 	if err != nil {
