@@ -8,6 +8,7 @@ import (
 	"cmp"
 	"fmt"
 	"math"
+	"math/bits"
 	"runtime"
 	"slices"
 	"sync"
@@ -39,7 +40,7 @@ func (e *engine) run() ([][]Bar, error) {
 	e.stats.Edges = int64(len(e.edges))
 
 	e.startPhase("edges", 0, int64(len(e.edges)))
-	if err := parallelSort(e.ctx, e.edges, filtrationOrder); err != nil {
+	if err := sortFiltration(e.ctx, e.edges, false); err != nil {
 		return nil, err
 	}
 	e.makeRanks()
@@ -89,33 +90,59 @@ func (e *engine) dim0() ([]Bar, []simplex, error) {
 	var columns []simplex
 	var w [2]int32
 	wantCols := e.maxDim >= 1
-	for k, s := range e.edges {
-		if e.work >= e.nextTick || k&0xffff == 0 {
-			e.phase.Done = int64(k)
-			if err := e.tick(); err != nil {
-				return nil, nil, err
-			}
+	var eb *edgeBits
+	if wantCols {
+		eb = e.newEdgeBits()
+	}
+	edges := e.edges
+	for g := 0; g < len(edges); {
+		// The group of edges of one length: an apparent pair's triangle
+		// may have any of them as its other edges.
+		h := g + 1
+		for h < len(edges) && edges[h].d == edges[g].d {
+			h++
 		}
-		e.vertices(s.i, 2, w[:])
-		u, v := find(w[0]), find(w[1])
-		if u != v {
-			if s.d > 0 {
-				bars = append(bars, Bar{0, s.d})
-			}
-			if rank[u] < rank[v] {
-				u, v = v, u
-			}
-			parent[v] = u
-			if rank[u] == rank[v] {
-				rank[u]++
-			}
-			continue
+		if eb != nil {
+			eb.add(eb.le, edges[g:h], e)
 		}
-		if wantCols {
+		for k := g; k < h; k++ {
+			s := edges[k]
+			if e.work >= e.nextTick || k&0xffff == 0 {
+				e.phase.Done = int64(k)
+				if err := e.tick(); err != nil {
+					return nil, nil, err
+				}
+			}
+			e.vertices(s.i, 2, w[:])
+			u, v := find(w[0]), find(w[1])
+			if u != v {
+				if s.d > 0 {
+					bars = append(bars, Bar{0, s.d})
+				}
+				if rank[u] < rank[v] {
+					u, v = v, u
+				}
+				parent[v] = u
+				if rank[u] == rank[v] {
+					rank[u]++
+				}
+				continue
+			}
+			if !wantCols {
+				continue
+			}
+			if eb != nil && eb.apparent(w[0], w[1]) {
+				e.stats.Apparent[1]++
+				continue
+			}
 			columns = append(columns, s)
 		}
+		if eb != nil {
+			eb.add(eb.lt, edges[g:h], e)
+		}
+		g = h
 	}
-	if wantCols {
+	if wantCols && eb == nil {
 		var err error
 		n0 := len(columns)
 		if columns, err = e.dropApparent(columns, 2); err != nil {
@@ -130,6 +157,85 @@ func (e *engine) dim0() ([]Bar, []simplex, error) {
 	}
 	slices.Reverse(columns)
 	return bars, columns, nil
+}
+
+// edgeBitsLimit bounds the memory of edgeBits (two n×n bit matrices:
+// 2 MiB for 4096 points, 32 MiB for 16384).
+const edgeBitsLimit = 32 << 20
+
+// useEdgeBits lets tests turn the edgeBits path off to check the
+// dropApparent path it replaces.
+var useEdgeBits = true
+
+// edgeBits finds the zero-persistence apparent pairs of edges during the
+// union–find pass, which visits the edges in filtration order: le holds
+// the graph of the edges of length ≤ the current one, lt of those of
+// length < it, as one bit row per vertex. The zero cofacet of an edge
+// {a,b} of length δ (the triangle of largest index among those of
+// diameter δ) is {a,b,j} for the largest common neighbour j in le; the
+// edge is its zero facet (the facet of smallest index among those of
+// diameter δ) when the facets of smaller index are shorter than δ,
+// which lt tells. Each test is a few word operations, where the test on
+// distances (apparentAsFacet) scans a neighbour list.
+type edgeBits struct {
+	words  int
+	le, lt []uint64
+}
+
+// newEdgeBits returns the bit rows for the engine's vertices, or nil
+// when they would take more than edgeBitsLimit or a quarter of the
+// budget.
+func (e *engine) newEdgeBits() *edgeBits {
+	if !useEdgeBits {
+		return nil
+	}
+	words := (e.n + 63) / 64
+	size := int64(e.n) * int64(words)
+	if est := 2 * 8 * size; est > edgeBitsLimit || est > e.budget/4 {
+		return nil
+	}
+	return &edgeBits{words: words, le: make([]uint64, size), lt: make([]uint64, size)}
+}
+
+// add sets the bits of the edges in m.
+func (b *edgeBits) add(m []uint64, edges []simplex, e *engine) {
+	var w [2]int32
+	for _, s := range edges {
+		e.vertices(s.i, 2, w[:])
+		x, y := int(w[0]), int(w[1])
+		m[x*b.words+y>>6] |= 1 << (y & 63)
+		m[y*b.words+x>>6] |= 1 << (x & 63)
+	}
+}
+
+// has reports whether {x,y} is an edge of m.
+func (b *edgeBits) has(m []uint64, x, y int32) bool {
+	return m[int(x)*b.words+int(y)>>6]>>(y&63)&1 != 0
+}
+
+// apparent reports whether the edge {a > c}, of the current length, is
+// the facet of a zero-persistence apparent pair.
+func (b *edgeBits) apparent(a, c int32) bool {
+	ra := b.le[int(a)*b.words : int(a)*b.words+b.words]
+	rc := b.le[int(c)*b.words : int(c)*b.words+b.words]
+	for k := b.words - 1; k >= 0; k-- {
+		x := ra[k] & rc[k]
+		if x == 0 {
+			continue
+		}
+		j := int32(k<<6 | (63 - bits.LeadingZeros64(x)))
+		// The facets of {a,c,j} in increasing index: remove the largest
+		// vertex, then the middle one, then the smallest.
+		switch {
+		case j > a: // {a,c} comes first
+			return true
+		case j > c: // {j,c} comes first
+			return b.has(b.lt, j, c)
+		default: // {c,j} and {a,j} come first
+			return b.has(b.lt, c, j) && b.has(b.lt, a, j)
+		}
+	}
+	return false
 }
 
 // reduce reduces the coboundary columns of the d-simplices in columns
@@ -321,7 +427,7 @@ func (e *engine) assemble(prev []simplex, pm *pivotMap, d int, keep bool) (cols,
 		return nil, nil, err
 	}
 	e.stats.Apparent[d] += int64(n0 - len(cols))
-	if err := parallelSort(e.ctx, cols, reverseOrder); err != nil {
+	if err := sortFiltration(e.ctx, cols, true); err != nil {
 		return nil, nil, err
 	}
 	return cols, all, nil

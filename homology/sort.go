@@ -6,6 +6,8 @@ package homology
 
 import (
 	"context"
+	"math"
+	"math/bits"
 	"runtime"
 	"slices"
 	"sync"
@@ -22,58 +24,86 @@ func parallelSort(ctx context.Context, s []simplex, order func(a, b simplex) int
 		slices.SortFunc(s, order)
 		return nil
 	}
-	workers := runtime.GOMAXPROCS(0)
-	var firstErr error
-	var mu sync.Mutex
-	run := func(jobs int, job func(j int)) {
-		var wg sync.WaitGroup
-		next := 0
-		for g := 0; g < workers; g++ {
-			wg.Add(1)
-			go func() {
-				defer wg.Done()
-				for {
-					mu.Lock()
-					j := next
-					next++
-					stop := firstErr != nil
-					if !stop && ctx.Err() != nil {
-						firstErr = ctx.Err()
-						stop = true
-					}
-					mu.Unlock()
-					if stop || j >= jobs {
-						return
-					}
-					job(j)
-				}
-			}()
-		}
-		wg.Wait()
-	}
 	n := len(s)
 	chunks := (n + sortChunk - 1) / sortChunk
-	run(chunks, func(j int) {
+	err := parallelJobs(ctx, chunks, func(j int) {
 		slices.SortFunc(s[j*sortChunk:min((j+1)*sortChunk, n)], order)
 	})
 	buf := make([]simplex, n)
 	src, dst := s, buf
-	for width := sortChunk; width < n && firstErr == nil; width *= 2 {
+	for width := sortChunk; width < n && err == nil; width *= 2 {
 		pairs := (n + 2*width - 1) / (2 * width)
-		run(pairs, func(j int) {
+		err = parallelJobs(ctx, pairs, func(j int) {
 			lo := j * 2 * width
 			mid, hi := min(lo+width, n), min(lo+2*width, n)
 			merge(dst[lo:hi], src[lo:mid], src[mid:hi], order)
 		})
 		src, dst = dst, src
 	}
-	if firstErr != nil {
-		return firstErr
+	if err != nil {
+		return err
 	}
 	if &src[0] != &s[0] {
 		copy(s, src)
 	}
 	return nil
+}
+
+// insertionSort sorts a short slice in filtration order, or the reverse
+// order, with the comparison written out (no call per comparison). The
+// lengths are not NaN.
+func insertionSort(a []simplex, reverse bool) {
+	for k := 1; k < len(a); k++ {
+		x := a[k]
+		j := k
+		for ; j > 0; j-- {
+			y := a[j-1]
+			var after bool // y comes after x
+			if reverse {
+				after = y.d < x.d || (y.d == x.d && y.i > x.i)
+			} else {
+				after = y.d > x.d || (y.d == x.d && y.i < x.i)
+			}
+			if !after {
+				break
+			}
+			a[j] = y
+		}
+		a[j] = x
+	}
+}
+
+// parallelJobs runs job(0..jobs−1) on all cores, each job once, and
+// stops handing out jobs when ctx is cancelled, returning ctx.Err().
+func parallelJobs(ctx context.Context, jobs int, job func(j int)) error {
+	var (
+		mu       sync.Mutex
+		next     int
+		firstErr error
+		wg       sync.WaitGroup
+	)
+	for range min(runtime.GOMAXPROCS(0), jobs) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				mu.Lock()
+				j := next
+				next++
+				if firstErr == nil && ctx.Err() != nil {
+					firstErr = ctx.Err()
+				}
+				stop := firstErr != nil
+				mu.Unlock()
+				if stop || j >= jobs {
+					return
+				}
+				job(j)
+			}
+		}()
+	}
+	wg.Wait()
+	return firstErr
 }
 
 func merge(dst, a, b []simplex, order func(a, b simplex) int) {
@@ -90,4 +120,88 @@ func merge(dst, a, b []simplex, order func(a, b simplex) int) {
 	}
 	k += copy(dst[k:], a[i:])
 	copy(dst[k:], b[j:])
+}
+
+// bucketMin is the length below which sortFiltration uses a plain
+// comparison sort.
+const bucketMin = 1 << 12
+
+// bucketSize is the mean number of simplices per bucket of
+// sortFiltration: small enough that a bucket sorts within the cache.
+const bucketSize = 32
+
+// sortFiltration sorts s in filtration order (filtrationOrder) or, with
+// reverse, in the opposite order. It distributes the simplices into
+// buckets by length, in one pass that reads and one that writes s's
+// elements (interpolating the length between the least and the greatest
+// is monotone in floating point, so the buckets are in order), then sorts
+// each bucket in the cache, the buckets shared among all cores. Unlike a
+// comparison sort of all of s this touches main memory a fixed number
+// of times. Lengths that are all equal or not all finite fall back to
+// parallelSort. It uses a buffer as long as s, and checks ctx between
+// groups of buckets.
+func sortFiltration(ctx context.Context, s []simplex, reverse bool) error {
+	order := filtrationOrder
+	if reverse {
+		order = reverseOrder
+	}
+	if len(s) < bucketMin {
+		slices.SortFunc(s, order)
+		return nil
+	}
+	lo, hi := s[0].d, s[0].d
+	for _, x := range s {
+		lo, hi = min(lo, x.d), max(hi, x.d)
+	}
+	if !(hi > lo) || isInf(hi) || math.IsNaN(lo) || math.IsNaN(hi) {
+		return parallelSort(ctx, s, order)
+	}
+	nb := 1 << bits.Len(uint(len(s)/bucketSize))
+	scale := float64(nb) / (hi - lo)
+	bucket := func(d float64) int {
+		b := min(int((d-lo)*scale), nb-1)
+		if reverse {
+			b = nb - 1 - b
+		}
+		return b
+	}
+	start := make([]int, nb+1)
+	for _, x := range s {
+		start[bucket(x.d)+1]++
+	}
+	for b := 1; b <= nb; b++ {
+		start[b] += start[b-1]
+	}
+	buf := make([]simplex, len(s))
+	fill := slices.Clone(start[:nb])
+	for _, x := range s {
+		b := bucket(x.d)
+		buf[fill[b]] = x
+		fill[b]++
+	}
+	// Groups of buckets of about sortChunk simplices, one job each.
+	var cuts []int
+	for b := 0; b < nb; {
+		e := b + 1
+		for e < nb && start[e+1]-start[b] <= sortChunk {
+			e++
+		}
+		cuts = append(cuts, b)
+		b = e
+	}
+	cuts = append(cuts, nb)
+	err := parallelJobs(ctx, len(cuts)-1, func(j int) {
+		for b := cuts[j]; b < cuts[j+1]; b++ {
+			if a := buf[start[b]:start[b+1]]; len(a) <= 48 {
+				insertionSort(a, reverse)
+			} else {
+				slices.SortFunc(a, order)
+			}
+		}
+	})
+	if err != nil {
+		return err
+	}
+	copy(s, buf)
+	return nil
 }

@@ -5,7 +5,9 @@
 package homology
 
 import (
+	"cmp"
 	"context"
+	"math"
 	"math/rand/v2"
 	"slices"
 	"testing"
@@ -29,4 +31,76 @@ func TestParallelSort(t *testing.T) {
 			t.Errorf("n=%d: not sorted like slices.SortFunc", n)
 		}
 	}
+}
+
+func TestSortFiltration(t *testing.T) {
+	// Compared with the standard library's comparison sort on inputs with
+	// many ties, zeros of both signs and +Inf, in both orders, from
+	// random order and from decreasing index order (the order in which
+	// the engine lists the edges of a distance matrix).
+	rng := rand.New(rand.NewPCG(2, 3))
+	for _, n := range []int{10, bucketMin + 5, 300000} {
+		for _, reverse := range []bool{false, true} {
+			for _, byIndex := range []bool{false, true} {
+				s := make([]simplex, n)
+				for i := range s {
+					var d float64
+					switch rng.IntN(20) {
+					case 0:
+						d = math.Copysign(0, -1)
+					case 1:
+						d = math.Inf(1)
+					case 2, 3, 4:
+						d = float64(rng.IntN(50))
+					default:
+						d = rng.Float64() * 1e3
+					}
+					s[i] = simplex{d, int64(rng.IntN(1 << 40))}
+				}
+				if byIndex {
+					slices.SortFunc(s, func(a, b simplex) int { return cmp.Compare(b.i, a.i) })
+				}
+				order := filtrationOrder
+				if reverse {
+					order = reverseOrder
+				}
+				want := slices.Clone(s)
+				slices.SortStableFunc(want, order)
+				if err := sortFiltration(context.Background(), s, reverse); err != nil {
+					t.Fatal(err)
+				}
+				for i := range s {
+					if order(s[i], want[i]) != 0 || s[i].i != want[i].i {
+						t.Errorf("n=%d reverse=%v byIndex=%v: element %d is %v, want %v", n, reverse, byIndex, i, s[i], want[i])
+						break
+					}
+				}
+			}
+		}
+	}
+}
+
+func BenchmarkSortFiltration(b *testing.B) {
+	rng := rand.New(rand.NewPCG(4, 5))
+	src := make([]simplex, 1<<20)
+	for i := range src {
+		src[i] = simplex{rng.Float64(), int64(len(src) - i)}
+	}
+	s := make([]simplex, len(src))
+	b.Run("buckets", func(b *testing.B) {
+		for b.Loop() {
+			copy(s, src)
+			if err := sortFiltration(context.Background(), s, false); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
+	b.Run("merge", func(b *testing.B) {
+		for b.Loop() {
+			copy(s, src)
+			if err := parallelSort(context.Background(), s, filtrationOrder); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
 }
