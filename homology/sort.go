@@ -158,8 +158,11 @@ func sortFiltration(ctx context.Context, s []simplex, reverse bool) error {
 	}
 	nb := 1 << bits.Len(uint(len(s)/bucketSize))
 	scale := float64(nb) / (hi - lo)
+	if isInf(scale) { // subnormal spread
+		return parallelSort(ctx, s, order)
+	}
 	bucket := func(d float64) int {
-		b := min(int((d-lo)*scale), nb-1)
+		b := max(0, min(int((d-lo)*scale), nb-1))
 		if reverse {
 			b = nb - 1 - b
 		}

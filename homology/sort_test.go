@@ -80,6 +80,34 @@ func TestSortFiltration(t *testing.T) {
 	}
 }
 
+func TestSortFiltrationEdgeCases(t *testing.T) {
+	// Lengths all equal, spread over a subnormal range (the bucket scale
+	// overflows), or spread over the whole float range.
+	rng := rand.New(rand.NewPCG(9, 9))
+	cases := map[string]func() float64{
+		"equal":     func() float64 { return 1.5 },
+		"subnormal": func() float64 { return float64(rng.IntN(3)) * 5e-324 },
+		"huge":      func() float64 { return math.Ldexp(rng.Float64(), rng.IntN(2000)-1000) },
+	}
+	for name, gen := range cases {
+		s := make([]simplex, 3*bucketMin)
+		for i := range s {
+			s[i] = simplex{gen(), int64(rng.IntN(1000))}
+		}
+		want := slices.Clone(s)
+		slices.SortStableFunc(want, filtrationOrder)
+		if err := sortFiltration(context.Background(), s, false); err != nil {
+			t.Fatal(err)
+		}
+		for i := range s {
+			if filtrationOrder(s[i], want[i]) != 0 {
+				t.Errorf("%s: element %d is %v, want %v", name, i, s[i], want[i])
+				break
+			}
+		}
+	}
+}
+
 func BenchmarkSortFiltration(b *testing.B) {
 	rng := rand.New(rand.NewPCG(4, 5))
 	src := make([]simplex, 1<<20)
