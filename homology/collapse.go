@@ -74,15 +74,21 @@ func CollapseEdges(ctx context.Context, d Distances, threshold float64) (*Sparse
 			}
 		}
 	}
-	return collapseOutput(n, edges, c.time), nil
+	return collapseOutput(n, edges, func(k int) float64 { return c.time[k] }), nil
 }
 
 // collapseOutput lists the edges that were not trimmed with their new
-// filtration values, sorted stably by value.
-func collapseOutput(n int, edges []cEdge, time []float64) *Sparse {
-	out := make([]Edge, 0, len(edges)/4)
+// filtration values time(k), sorted stably by value.
+func collapseOutput(n int, edges []cEdge, time func(k int) float64) *Sparse {
+	kept := 0
+	for k := range edges {
+		if !math.IsInf(time(k), 1) {
+			kept++
+		}
+	}
+	out := make([]Edge, 0, kept)
 	for k, e := range edges {
-		if t := time[k]; !math.IsInf(t, 1) {
+		if t := time(k); !math.IsInf(t, 1) {
 			out = append(out, Edge{I: int(e.a), J: int(e.b), D: t})
 		}
 	}
@@ -98,27 +104,44 @@ func collapseOutput(n int, edges []cEdge, time []float64) *Sparse {
 // of time ≤ s. Neighbourhood intersections and subset tests are then
 // word operations on n-bit rows, and the search for the end of a
 // domination scans only the short "up" lists.
+//
+// Every time an edge ever gets is an input length (or trimmed), so times
+// are kept as ranks among the distinct input lengths: the n×n table of
+// current times takes 4 bytes an entry, and comparing ranks is comparing
+// the lengths.
 func collapseDense(ctx context.Context, n int, edges []cEdge) (*Sparse, error) {
 	words := (n + 63) / 64
 	c := &bitCollapser{
 		edges: edges,
-		time:  make([]float64, len(edges)),
-		dense: make([]float64, n*n),
+		time:  make([]uint32, len(edges)),
+		dense: make([]uint32, n*n),
 		n:     n,
 		words: words,
 		low:   make([]uint64, n*words),
-		up:    make([][]nb, n),
+		up:    make([][]upEdge, n),
 		ca:    make([]uint64, words),
 		cb:    make([]uint64, words),
 		cn:    make([]uint64, words),
 	}
 	for i := range c.dense {
-		c.dense[i] = math.Inf(1)
+		c.dense[i] = rankNone
 	}
+	// The edges are sorted by length: rank r is the r-th distinct one.
+	distinct := 0
 	for k, e := range edges {
-		c.time[k] = e.d
-		c.dense[int(e.a)*n+int(e.b)] = e.d
-		c.dense[int(e.b)*n+int(e.a)] = e.d
+		if k == 0 || e.d != edges[k-1].d {
+			distinct++
+		}
+	}
+	lengths := make([]float64, 0, distinct)
+	for k, e := range edges {
+		if k == 0 || e.d != edges[k-1].d {
+			lengths = append(lengths, e.d)
+		}
+		r := uint32(len(lengths) - 1)
+		c.time[k] = r
+		c.dense[int(e.a)*n+int(e.b)] = r
+		c.dense[int(e.b)*n+int(e.a)] = r
 		c.low[int(e.a)*words+int(e.b)>>6] |= 1 << (uint(e.b) & 63)
 		c.low[int(e.b)*words+int(e.a)>>6] |= 1 << (uint(e.a) & 63)
 	}
@@ -130,23 +153,39 @@ func collapseDense(ctx context.Context, n int, edges []cEdge) (*Sparse, error) {
 		}
 		c.step(int32(k))
 	}
-	return collapseOutput(n, edges, c.time), nil
+	return collapseOutput(n, edges, func(k int) float64 {
+		if r := c.time[k]; r != rankNone {
+			return lengths[r]
+		}
+		return trimmed
+	}), nil
 }
 
-// bitCollapser holds the state of collapseDense.
+// rankNone is the time rank of an absent or trimmed edge, above every
+// length.
+const rankNone = math.MaxUint32
+
+// bitCollapser holds the state of collapseDense. Times are ranks of the
+// distinct input lengths.
 type bitCollapser struct {
 	edges    []cEdge
-	time     []float64 // per edge: its current filtration value
-	dense    []float64 // n×n current edge times (+Inf none)
+	time     []uint32 // per edge: its current filtration value
+	dense    []uint32 // n×n current edge times (rankNone: none)
 	n, words int
-	low      []uint64 // n rows of words: neighbours by edges of index < k
-	up       [][]nb   // per vertex: processed edges kept, with final times
-	ca, cb   []uint64 // scratch rows
-	cn       []uint64 // scratch: common neighbours
+	low      []uint64   // n rows of words: neighbours by edges of index < k
+	up       [][]upEdge // per vertex: processed edges kept, with final times
+	ca, cb   []uint64   // scratch rows
+	cn       []uint64   // scratch: common neighbours
+}
+
+// upEdge is a processed edge at a vertex: the other end and its time.
+type upEdge struct {
+	v int32
+	t uint32
 }
 
 // setTime sets the filtration value of edge k.
-func (c *bitCollapser) setTime(k int32, t float64) {
+func (c *bitCollapser) setTime(k int32, t uint32) {
 	e := c.edges[k]
 	c.time[k] = t
 	c.dense[int(e.a)*c.n+int(e.b)] = t
@@ -161,10 +200,10 @@ func (c *bitCollapser) step(k int32) {
 	n, words := c.n, c.words
 	c.low[int(e.a)*words+int(e.b)>>6] &^= 1 << (uint(e.b) & 63)
 	c.low[int(e.b)*words+int(e.a)>>6] &^= 1 << (uint(e.a) & 63)
-	s := e.d
+	s := c.time[k]
 	if w := c.dominated(e.a, e.b, s); w >= 0 {
 		for {
-			next := math.Inf(1)
+			next := uint32(rankNone)
 			for _, end := range [2]int32{e.a, e.b} {
 				other := e.a + e.b - end
 				ro := c.dense[int(other)*n : int(other)*n+n]
@@ -179,8 +218,8 @@ func (c *bitCollapser) step(k int32) {
 					}
 				}
 			}
-			if math.IsInf(next, 1) {
-				c.setTime(k, trimmed)
+			if next == rankNone {
+				c.setTime(k, rankNone)
 				return
 			}
 			s = next
@@ -191,12 +230,12 @@ func (c *bitCollapser) step(k int32) {
 		}
 	}
 	t := c.time[k]
-	c.up[e.a] = append(c.up[e.a], nb{e.b, k, t})
-	c.up[e.b] = append(c.up[e.b], nb{e.a, k, t})
+	c.up[e.a] = append(c.up[e.a], upEdge{e.b, t})
+	c.up[e.b] = append(c.up[e.b], upEdge{e.a, t})
 }
 
 // row fills dst with the neighbours of u in the graph at time s.
-func (c *bitCollapser) row(dst []uint64, u int32, s float64) {
+func (c *bitCollapser) row(dst []uint64, u int32, s uint32) {
 	copy(dst, c.low[int(u)*c.words:int(u)*c.words+c.words])
 	for _, x := range c.up[u] {
 		if x.t <= s {
@@ -207,7 +246,7 @@ func (c *bitCollapser) row(dst []uint64, u int32, s float64) {
 
 // dominated returns the least vertex w ∉ {a,b} with N[a]∩N[b] ⊆ N[w] in
 // the graph at time s, or −1.
-func (c *bitCollapser) dominated(a, b int32, s float64) int32 {
+func (c *bitCollapser) dominated(a, b int32, s uint32) int32 {
 	c.row(c.ca, a, s)
 	c.row(c.cb, b, s)
 	cn := c.cn
@@ -248,26 +287,30 @@ type cEdge struct {
 }
 
 // collapseInput lists the finite edges of length ≤ threshold, sorted by
-// (length, a, b), checking every value.
+// (length, a, b), checking every value. The list is counted before it is
+// allocated.
 func collapseInput(ctx context.Context, d Distances, threshold float64) ([]cEdge, error) {
+	keep := func(v float64) bool { return v <= threshold && !math.IsInf(v, 1) }
 	var edges []cEdge
 	add := func(i, j int, v float64) error {
 		if math.IsNaN(v) || v < 0 {
 			return fmt.Errorf("%w: distance (%d,%d) is %v", ErrDistances, i, j, v)
 		}
-		if v <= threshold && !math.IsInf(v, 1) {
+		if keep(v) {
 			edges = append(edges, cEdge{int32(min(i, j)), int32(max(i, j)), v})
 		}
 		return nil
 	}
 	switch d := d.(type) {
 	case *Sparse:
-		if _, err := NewSparse(d.N, d.Edges); err != nil {
+		m, err := checkSparse(d, keep)
+		if err != nil {
 			return nil, err
 		}
+		edges = make([]cEdge, 0, m)
 		for _, e := range d.Edges {
-			if err := add(e.I, e.J, e.D); err != nil {
-				return nil, err
+			if keep(e.D) {
+				edges = append(edges, cEdge{int32(min(e.I, e.J)), int32(max(e.I, e.J)), e.D})
 			}
 		}
 	case *LowerTriangular:
@@ -279,6 +322,13 @@ func collapseInput(ctx context.Context, d Distances, threshold float64) ([]cEdge
 		if r, _ := enclosingRadius(d); r < threshold {
 			threshold = r
 		}
+		m := 0
+		for _, v := range d.Data {
+			if keep(v) {
+				m++
+			}
+		}
+		edges = make([]cEdge, 0, m)
 		for i := 1; i < d.N; i++ {
 			if i%256 == 0 {
 				if err := ctx.Err(); err != nil {
@@ -311,6 +361,45 @@ func collapseInput(ctx context.Context, d Distances, threshold float64) ([]cEdge
 		return cmp.Compare(x.b, y.b)
 	})
 	return edges, nil
+}
+
+// checkSparse checks the edge list s as NewSparse does and returns how
+// many of its lengths keep accepts.
+func checkSparse(s *Sparse, keep func(float64) bool) (int, error) {
+	if !smallSparseValid(s) {
+		if _, err := NewSparse(s.N, s.Edges); err != nil {
+			return 0, err
+		}
+	}
+	m := 0
+	for _, e := range s.Edges {
+		if keep(e.D) {
+			m++
+		}
+	}
+	return m, nil
+}
+
+// smallSparseValid reports whether s has at most denseLimit points and
+// passes the checks of NewSparse. It finds repeated pairs with an n×n
+// bitset, a fraction of the memory and time of NewSparse's map.
+func smallSparseValid(s *Sparse) bool {
+	n := s.N
+	if n < 0 || n > denseLimit {
+		return false
+	}
+	seen := make([]uint64, (n*n+63)/64)
+	for _, e := range s.Edges {
+		if e.I < 0 || e.I >= n || e.J < 0 || e.J >= n || e.I == e.J || math.IsNaN(e.D) || e.D < 0 {
+			return false
+		}
+		bit := min(e.I, e.J)*n + max(e.I, e.J)
+		if seen[bit>>6]&(1<<(bit&63)) != 0 {
+			return false
+		}
+		seen[bit>>6] |= 1 << (bit & 63)
+	}
+	return true
 }
 
 // trimmed is the filtration value of an edge removed altogether.

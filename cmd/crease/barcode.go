@@ -102,12 +102,21 @@ func runBarcode(ctx context.Context, args []string, stdin io.Reader, stdout, std
 }
 
 // barcodeOf computes the barcode of x, through the edge collapse of
-// homology.CollapseEdges when collapse is set.
+// homology.CollapseEdges when collapse is set. At a given finite
+// threshold the collapse starts from homology.PointEdges, the pairs
+// within it, rather than from all the distances (torus2000 in R³ at
+// threshold 1.5: 12 % of the pairs).
 func barcodeOf(ctx context.Context, x mat.Matrix, set *homology.Settings, collapse bool) (*homology.Barcode, error) {
 	if !collapse {
 		return homology.Rips(ctx, x, set)
 	}
-	d, err := homology.PointDistances(ctx, x, set)
+	var d homology.Distances
+	var err error
+	if t := set.Threshold; t > 0 && !math.IsInf(t, 1) && set.Metric != homology.KNNGeodesic {
+		d, err = homology.PointEdges(ctx, x, set)
+	} else {
+		d, err = homology.PointDistances(ctx, x, set)
+	}
 	if err != nil {
 		return nil, err
 	}
