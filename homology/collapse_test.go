@@ -6,12 +6,9 @@ package homology
 
 import (
 	"context"
-	"encoding/json"
 	"errors"
 	"math"
 	"math/rand/v2"
-	"os"
-	"path/filepath"
 	"testing"
 )
 
@@ -196,22 +193,14 @@ func TestCollapseShrinks(t *testing.T) {
 	}
 }
 
-// TestCollapseGUDHI runs the collapse on every cloud of
-// testdata/homology/gudhi.json and compares the barcode with GUDHI 3.7.1
+// TestCollapseGUDHI runs every cloud of testdata/homology/gudhi.json
+// through the collapse of its distances, through PointEdges and through
+// the collapse of PointEdges, and compares the barcodes with GUDHI 3.7.1
 // (Debian python3-gudhi, RipsComplex + persistence; generator
 // testdata/gen/homology_clouds.py) and with the plain engine.
 func TestCollapseGUDHI(t *testing.T) {
-	b, err := os.ReadFile(filepath.Join("..", "testdata", "homology", "gudhi.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
 	var fix gudhiFixture
-	if err := json.Unmarshal(b, &fix); err != nil {
-		t.Fatal(err)
-	}
-	if v := fix.Versions["gudhi"]; v != "3.7.1" {
-		t.Fatalf("fixture made with GUDHI %q, want 3.7.1", v)
-	}
+	gudhiRead(t, "gudhi.json", &fix)
 	for _, c := range fix.Cases {
 		t.Run(c.Name, func(t *testing.T) {
 			t.Parallel()
@@ -226,27 +215,36 @@ func TestCollapseGUDHI(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			s, err := CollapseEdges(ctx, lt, plain.Threshold)
+			pe, err := PointEdges(ctx, x, set)
 			if err != nil {
 				t.Fatal(err)
 			}
-			bc, err := RipsDistances(ctx, s, &Settings{MaxDim: c.MaxDim, Threshold: plain.Threshold, Field: c.Field})
-			if err != nil {
-				t.Fatal(err)
-			}
-			for d := range c.Bars {
-				want := make([]Bar, len(c.Bars[d]))
-				for i, p := range c.Bars[d] {
-					want[i] = Bar{Birth: *p[0], Death: math.Inf(1)}
-					if p[1] != nil {
-						want[i].Death = *p[1]
+			for _, path := range []struct {
+				name     string
+				d        Distances
+				collapse bool
+			}{
+				{"collapse of the distances", lt, true},
+				{"PointEdges", pe, false},
+				{"collapse of PointEdges", pe, true},
+			} {
+				d := path.d
+				if path.collapse {
+					if d, err = CollapseEdges(ctx, d, plain.Threshold); err != nil {
+						t.Fatal(err)
 					}
 				}
-				if msg := gudhiMatch(want, bc.Bars[d]); msg != "" {
-					t.Errorf("H%d (Z/%d, threshold %v, %d edges kept): %s", d, c.Field, plain.Threshold, len(s.Edges), msg)
+				bc, err := RipsDistances(ctx, d, &Settings{MaxDim: c.MaxDim, Threshold: plain.Threshold, Field: c.Field})
+				if err != nil {
+					t.Fatal(err)
 				}
-				if !engBarsEqual(bc.Bars[d], plain.Bars[d], 1e-12) {
-					t.Errorf("H%d differs from the plain engine", d)
+				for dim := range c.Bars {
+					if msg := gudhiMatch(gudhiBars(c.Bars[dim]), bc.Bars[dim]); msg != "" {
+						t.Errorf("%s: H%d (Z/%d, threshold %v): %s", path.name, dim, c.Field, plain.Threshold, msg)
+					}
+					if !engBarsEqual(bc.Bars[dim], plain.Bars[dim], 0) {
+						t.Errorf("%s: H%d differs from the plain engine", path.name, dim)
+					}
 				}
 			}
 		})
@@ -267,12 +265,24 @@ func TestCollapseErrors(t *testing.T) {
 		{"NaN threshold", good, math.NaN(), ErrSettings},
 		{"NaN edge", &Sparse{N: 2, Edges: []Edge{{0, 1, math.NaN()}}}, 1, ErrDistances},
 		{"repeated edge", &Sparse{N: 2, Edges: []Edge{{0, 1, 1}, {1, 0, 1}}}, 1, ErrDistances},
+		{"repeated edge, other length", &Sparse{N: 3, Edges: []Edge{{0, 1, 1}, {1, 2, 3}, {1, 0, 2}}}, 1, ErrDistances},
+		{"index out of range", &Sparse{N: 2, Edges: []Edge{{0, 2, 1}}}, 1, ErrDistances},
+		{"negative index", &Sparse{N: 2, Edges: []Edge{{-1, 1, 1}}}, 1, ErrDistances},
+		{"loop", &Sparse{N: 2, Edges: []Edge{{1, 1, 1}}}, 1, ErrDistances},
+		{"negative edge", &Sparse{N: 2, Edges: []Edge{{0, 1, -1}}}, 1, ErrDistances},
+		{"negative count", &Sparse{N: -1}, 1, ErrDistances},
 		{"short triangle", &LowerTriangular{N: 3, Data: []float64{1}}, 1, ErrDistances},
 		{"negative entry", &LowerTriangular{N: 2, Data: []float64{-1}}, 1, ErrDistances},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			if _, err := CollapseEdges(ctx, tc.d, tc.thr); !errors.Is(err, tc.want) {
 				t.Errorf("err = %v, want %v", err, tc.want)
+			}
+			// The same through the checks for clouds over denseLimit.
+			defer func(l int) { denseLimit = l }(denseLimit)
+			denseLimit = 0
+			if _, err := CollapseEdges(ctx, tc.d, tc.thr); !errors.Is(err, tc.want) {
+				t.Errorf("over denseLimit: err = %v, want %v", err, tc.want)
 			}
 		})
 	}

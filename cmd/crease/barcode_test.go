@@ -7,8 +7,12 @@ package main
 import (
 	"bytes"
 	"context"
+	"encoding/json"
 	"fmt"
 	"math"
+	"os"
+	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -95,6 +99,8 @@ func TestBarcodeCLIBadInput(t *testing.T) {
 		{"metric", "0,0\n1,1\n", []string{"-", "--metric", "manhattan"}, "unknown metric"},
 		{"no file", "", nil, "usage"},
 		{"missing file", "", []string{"/nonexistent/points.csv"}, "no such file"},
+		{"one point, collapsed at a threshold", "1,2,3\n", []string{"-", "--collapse", "--threshold", "1"}, "at least 2 points"},
+		{"zero vector, cosine collapsed", "0,0,0\n1,1,1\n", []string{"-", "--collapse", "--metric", "cosine", "--threshold", "1"}, "row 0 is the zero vector"},
 	} {
 		t.Run(test.name, func(t *testing.T) {
 			code, out, errs := runBarcodeCLI(t, test.in, test.args...)
@@ -106,6 +112,123 @@ func TestBarcodeCLIBadInput(t *testing.T) {
 			}
 			if !strings.Contains(errs, test.want) {
 				t.Errorf("stderr %q does not contain %q", errs, test.want)
+			}
+		})
+	}
+}
+
+// TestBarcodeCLICollapse runs the truncated clouds of
+// testdata/homology/gudhi.json through crease barcode with and without
+// the edge collapse (which starts from the pairs within the threshold)
+// and compares the output with each other, byte for byte, and with the
+// bars of GUDHI 3.7.1 (Debian python3-gudhi, RipsComplex + persistence;
+// generator testdata/gen/homology_clouds.py) within 1e-9.
+func TestBarcodeCLICollapse(t *testing.T) {
+	b, err := os.ReadFile(filepath.Join("..", "..", "testdata", "homology", "gudhi.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var fix struct {
+		Versions map[string]string `json:"versions"`
+		Cases    []struct {
+			Name, File, Mode string
+			MaxDim           int     `json:"maxdim"`
+			Threshold        float64 `json:"threshold"`
+			Field            int     `json:"field"`
+			Bars             [][][2]*float64
+		} `json:"cases"`
+	}
+	if err := json.Unmarshal(b, &fix); err != nil {
+		t.Fatal(err)
+	}
+	if v := fix.Versions["gudhi"]; v != "3.7.1" {
+		t.Fatalf("fixture made with GUDHI %q, want 3.7.1", v)
+	}
+	ran := 0
+	for _, c := range fix.Cases {
+		if c.Mode != "truncated" {
+			continue
+		}
+		ran++
+		t.Run(c.Name, func(t *testing.T) {
+			file := filepath.Join("..", "..", "testdata", "homology", c.File)
+			args := []string{file, "--maxdim", strconv.Itoa(c.MaxDim), "--field", strconv.Itoa(c.Field),
+				"--threshold", strconv.FormatFloat(c.Threshold, 'g', -1, 64)}
+			code, collapsed, errs := runBarcodeCLI(t, "", append(args, "--collapse")...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			code, plain, errs := runBarcodeCLI(t, "", append(args, "--collapse=false")...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			if collapsed != plain {
+				t.Errorf("collapsed output differs from the plain one:\n%s\nplain:\n%s", collapsed, plain)
+			}
+			got := make([][][2]float64, c.MaxDim+1)
+			for _, line := range strings.Split(strings.TrimSpace(collapsed), "\n") {
+				var d int
+				var birth, death float64
+				if _, err := fmt.Sscanf(strings.ReplaceAll(line, "inf", "+Inf"), "%d\t%g\t%g", &d, &birth, &death); err != nil {
+					t.Fatalf("line %q: %v", line, err)
+				}
+				got[d] = append(got[d], [2]float64{birth, death})
+			}
+			for d, bars := range c.Bars {
+				if len(bars) != len(got[d]) {
+					t.Errorf("H%d: %d bars, GUDHI %d", d, len(got[d]), len(bars))
+					continue
+				}
+				used := make([]bool, len(got[d]))
+				for _, w := range bars {
+					wd := math.Inf(1)
+					if w[1] != nil {
+						wd = *w[1]
+					}
+					found := false
+					for i, g := range got[d] {
+						if !used[i] && math.Abs(g[0]-*w[0]) <= 1e-9 && (g[1] == wd || math.Abs(g[1]-wd) <= 1e-9) {
+							used[i], found = true, true
+							break
+						}
+					}
+					if !found {
+						t.Errorf("H%d: GUDHI bar [%v, %v) missing", d, *w[0], wd)
+					}
+				}
+			}
+		})
+	}
+	if ran < 4 {
+		t.Fatalf("only %d truncated fixture clouds", ran)
+	}
+}
+
+// TestBarcodeCLICollapseMetrics checks the collapse paths of the other
+// metrics (cosine from the pairs within the threshold, knn from all
+// distances) against the plain computation, byte for byte.
+func TestBarcodeCLICollapseMetrics(t *testing.T) {
+	file := filepath.Join("..", "..", "testdata", "homology", "torus200_h2.csv")
+	for _, args := range [][]string{
+		{"--metric", "cosine", "--threshold", "0.05"},
+		{"--metric", "cosine", "--threshold", "0.05", "--maxdim", "2"},
+		{"--metric", "knn", "--k", "6", "--threshold", "3"},
+		{"--threshold", "100"}, // beyond the enclosing radius
+	} {
+		t.Run(strings.Join(args, " "), func(t *testing.T) {
+			code, collapsed, errs := runBarcodeCLI(t, "", append([]string{file, "--collapse"}, args...)...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			code, plain, errs := runBarcodeCLI(t, "", append([]string{file, "--collapse=false"}, args...)...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			if collapsed != plain {
+				t.Errorf("collapsed output differs from the plain one:\n%s\nplain:\n%s", collapsed, plain)
+			}
+			if strings.Count(collapsed, "\n") < 2 {
+				t.Errorf("only %q", collapsed)
 			}
 		})
 	}
