@@ -5,10 +5,12 @@
 package homology
 
 import (
+	"cmp"
 	"context"
 	"errors"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"testing"
 )
 
@@ -371,5 +373,50 @@ func BenchmarkCollapse(b *testing.B) {
 			b.ReportMetric(float64(before), "edges")
 			b.ReportMetric(float64(after), "kept")
 		})
+	}
+}
+
+// TestSortEdges checks the radix sort of the collapse input against the
+// comparison sort of Go's standard library (slices.SortFunc), bit for
+// bit, with many ties, −0 next to +0, and sizes below and above
+// radixMin.
+func TestSortEdges(t *testing.T) {
+	rng := rand.New(rand.NewPCG(41, 42))
+	for _, m := range []int{0, 1, 7, radixMin - 1, radixMin, 3 * radixMin} {
+		for _, pool := range []int{3, 100, 1 << 30} {
+			edges := make([]cEdge, m)
+			seen := map[[2]int32]bool{}
+			for k := range edges {
+				var a, b int32
+				for {
+					a, b = rng.Int32N(1000), rng.Int32N(1000)
+					if a < b && !seen[[2]int32{a, b}] {
+						break
+					}
+				}
+				seen[[2]int32{a, b}] = true
+				d := float64(rng.IntN(pool)) / 7
+				if d == 0 && rng.IntN(2) == 0 {
+					d = math.Copysign(0, -1)
+				}
+				edges[k] = cEdge{a, b, d}
+			}
+			want := slices.Clone(edges)
+			slices.SortFunc(want, func(x, y cEdge) int {
+				if c := cmp.Compare(x.d, y.d); c != 0 && !(x.d == 0 && y.d == 0) {
+					return c
+				}
+				if c := cmp.Compare(x.a, y.a); c != 0 {
+					return c
+				}
+				return cmp.Compare(x.b, y.b)
+			})
+			sortEdges(edges)
+			for k, e := range edges {
+				if w := want[k]; e.a != w.a || e.b != w.b || math.Float64bits(e.d) != math.Float64bits(w.d) {
+					t.Fatalf("m=%d pool=%d: edge %d is %v, want %v", m, pool, k, e, w)
+				}
+			}
+		}
 	}
 }
