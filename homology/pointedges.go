@@ -128,15 +128,12 @@ func finiteBound(b float64) float64 {
 	return min(b, math.MaxFloat64)
 }
 
-// edgeRowBlock is the number of rows a worker takes at a time.
-const edgeRowBlock = 16
-
 // forRows calls f(w, i, keys) for every row i in 1..n−1, keys holding
-// the keys of row i, on up to GOMAXPROCS workers w that take blocks of
-// rows in turn (so the triangular work stays balanced). It stops early
-// with ctx.Err() when ctx is cancelled. skip, if not nil, leaves out the
-// rows it reports.
-func (k *edgeKeys) forRows(ctx context.Context, n, workers int, skip func(i int) bool, f func(w, i int, keys []float64)) error {
+// the keys of row i, on workers w that take blocks of rows in turn (so
+// the triangular work stays balanced). It stops early with ctx.Err()
+// when ctx is cancelled. skip, if not nil, leaves out the rows it
+// reports.
+func (k *edgeKeys) forRows(ctx context.Context, n, workers, block int, skip func(i int) bool, f func(w, i int, keys []float64)) error {
 	var next atomic.Int64
 	var wg sync.WaitGroup
 	errs := make([]error, workers)
@@ -146,7 +143,7 @@ func (k *edgeKeys) forRows(ctx context.Context, n, workers int, skip func(i int)
 			defer wg.Done()
 			keys := make([]float64, n)
 			for {
-				lo := 1 + int(next.Add(1)-1)*edgeRowBlock
+				lo := 1 + int(next.Add(1)-1)*block
 				if lo >= n {
 					return
 				}
@@ -154,7 +151,7 @@ func (k *edgeKeys) forRows(ctx context.Context, n, workers int, skip func(i int)
 					errs[w] = err
 					return
 				}
-				for i := lo; i < min(lo+edgeRowBlock, n); i++ {
+				for i := lo; i < min(lo+block, n); i++ {
 					if skip != nil && skip(i) {
 						continue
 					}
@@ -181,6 +178,9 @@ func cloudEdges(ctx context.Context, c *cloud, r resolved) (*Sparse, error) {
 	}
 	n := c.n
 	workers := min(runtime.GOMAXPROCS(0), max(1, n/64))
+	// Blocks of up to 16 rows and about 2²⁰ coordinates, so that a
+	// cancellation is seen within milliseconds.
+	block := max(1, min(16, (1<<20)/(n*c.dim)))
 	// Per row: its count and its largest key; per worker: the largest
 	// key of each column.
 	est := int64(n) * (8 + 8 + 16*int64(workers))
@@ -199,7 +199,7 @@ func cloudEdges(ctx context.Context, c *cloud, r resolved) (*Sparse, error) {
 	var nan atomic.Int64
 	nan.Store(-1)
 	bound := finiteBound(k.bound(r.threshold))
-	err = k.forRows(ctx, n, workers, nil, func(w, i int, keys []float64) {
+	err = k.forRows(ctx, n, workers, block, nil, func(w, i int, keys []float64) {
 		m, cnt := 0.0, int64(0)
 		cm := colMax[w]
 		for j, v := range keys {
@@ -231,7 +231,7 @@ func cloudEdges(ctx context.Context, c *cloud, r resolved) (*Sparse, error) {
 	if e := k.dist(enc); e < r.threshold {
 		// The threshold is the enclosing radius: count again.
 		bound = finiteBound(k.bound(e))
-		err = k.forRows(ctx, n, workers, nil, func(_, i int, keys []float64) {
+		err = k.forRows(ctx, n, workers, block, nil, func(_, i int, keys []float64) {
 			cnt := int64(0)
 			for _, v := range keys {
 				if v <= bound {
@@ -260,7 +260,7 @@ func cloudEdges(ctx context.Context, c *cloud, r resolved) (*Sparse, error) {
 		}
 		return m
 	}
-	err = k.forRows(ctx, n, workers, func(i int) bool { return count[i] == end(i) }, func(_, i int, keys []float64) {
+	err = k.forRows(ctx, n, workers, block, func(i int) bool { return count[i] == end(i) }, func(_, i int, keys []float64) {
 		out := edges[count[i]:end(i)]
 		at := 0
 		for j, v := range keys {
