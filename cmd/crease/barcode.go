@@ -133,12 +133,13 @@ const collapseDensity = 0.25
 
 // collapseGate reports whether the edge collapse pays for H≤1 on the
 // Euclidean cloud x at the threshold (0: the enclosing radius). Measured
-// with bench/homology.sh (torus2000 in R³, H≤1, whole process, plain vs
-// collapsed): thr 1.0 (4.9 % of pairs are edges) 0.27 vs 0.17 s, thr 1.5
-// (11.7 %) 1.96 vs 0.34 s, but thr 3.0 (55 %) 14 vs 24 s and the
-// enclosing radius (80 %) 15 vs 23 s; at the enclosing radius the
-// R¹⁶ clusters (78 %) took 1.2 vs 4.9 s and the R⁶⁴ digits (82 %) 1.4 vs
-// 45 s, while the planar noisy circle (84 %) took 8.4 vs 0.5 s. So: a
+// with `crease barcode --collapse=false` and `--collapse` (whole process,
+// H≤1, the clouds of bench/homology.sh), plain vs collapsed: torus2000 in
+// R³ at thr 1.0 (4.9 % of pairs are edges) 0.20 vs 0.13 s, thr 1.5
+// (11.7 %) 1.48 vs 0.21 s, but thr 3.0 (55 %) 9.4 vs 22 s and the
+// enclosing radius (80 %) 13.5 vs 21.5 s; at the enclosing radius the
+// R¹⁶ clusters (78 %) took 0.65 vs 3.1 s and the R⁶⁴ digits (82 %) 0.9 vs
+// 40 s, while the planar noisy circle (84 %) took 5.4 vs 0.22 s. So: a
 // given threshold with at most collapseDensity of the pairs within it,
 // or a cloud in the plane. Other metrics were not measured and keep the
 // plain path.
