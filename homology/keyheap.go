@@ -11,9 +11,12 @@ import (
 )
 
 // keyHeap is a 4-ary min-heap of working-column entries packed in one
-// word each, used when they fit: the filtration rank of the diameter
-// (its position among the sorted distinct edge lengths), then the
-// complement of the simplex index, then the coefficient:
+// word each. It also defines that word for radixColumn, the working
+// column of the reduction, which keeps a keyHeap for its entries below
+// the last pivot. The word, used when it fits, holds the filtration rank
+// of the diameter (its position among the sorted distinct edge
+// lengths), then the complement of the simplex index, then the
+// coefficient:
 //
 //	rank<<(ib+cb) | (idxMax−index)<<cb | coefficient
 //
@@ -67,24 +70,6 @@ func (h *keyHeap) push(x uint64) {
 		i = p
 	}
 	a[i] = x
-}
-
-// add appends x without restoring the heap order (see heapify).
-func (h *keyHeap) add(x uint64) {
-	if len(h.a) == cap(h.a) {
-		h.grow()
-	}
-	h.a = append(h.a, x)
-}
-
-// heapify restores the heap order after entries were appended to h.a.
-func (h *keyHeap) heapify() {
-	if len(h.a) < 2 {
-		return
-	}
-	for i := (len(h.a) - 2) / 4; i >= 0; i-- {
-		h.down(i)
-	}
 }
 
 // grow doubles the capacity, compacting first under the rule of

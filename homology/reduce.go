@@ -249,8 +249,9 @@ func (e *engine) reduce(columns []simplex, d int, pm *pivotMap) ([]Bar, error) {
 	ait := &cofaces{e: e}
 	cob, red := entryHeap{p: p}, entryHeap{p: p}
 	// kob replaces cob when its entries pack into one word.
-	kob, packed := newKeyHeap(p, e.binom[k+1][e.n], len(e.lengths))
+	kf, packed := newKeyHeap(p, e.binom[k+1][e.n], len(e.lengths))
 	packed = packed && packKeys
+	kob := newRadixColumn(kf)
 	// The reduction matrix: for column c, the simplices added to it (other
 	// than itself) are vEnt[vStart[c]:vStart[c+1]].
 	vStart := make([]int, len(columns)+1)
@@ -271,7 +272,7 @@ func (e *engine) reduce(columns []simplex, d int, pm *pivotMap) ([]Bar, error) {
 				cf = p - f
 			}
 			if packed {
-				kob.push(kob.key(it.r, c.i, cf))
+				kob.push(kf.key(it.r, c.i, cf))
 			} else {
 				cob.push(mkEntry(c.d, c.i, cf))
 			}
@@ -283,7 +284,7 @@ func (e *engine) reduce(columns []simplex, d int, pm *pivotMap) ([]Bar, error) {
 			if err := e.tick(); err != nil {
 				return nil, err
 			}
-			if est := int64(cap(cob.a)+cap(red.a)+cap(vEnt))*16 + int64(cap(kob.a))*8; est > e.budget {
+			if est := int64(cap(cob.a)+cap(red.a)+cap(vEnt))*16 + int64(kob.size())*8; est > e.budget {
 				return nil, &MemoryError{Estimate: est, Budget: e.budget, Points: e.n,
 					What: fmt.Sprintf("reducing the H%d columns", d)}
 			}
@@ -318,7 +319,7 @@ func (e *engine) reduce(columns []simplex, d int, pm *pivotMap) ([]Bar, error) {
 				}
 			}
 			if packed {
-				kob.add(kob.key(it.r, c.i, cf))
+				kob.push(kf.key(it.r, c.i, cf))
 			} else {
 				cob.add(mkEntry(c.d, c.i, cf))
 			}
@@ -328,14 +329,13 @@ func (e *engine) reduce(columns []simplex, d int, pm *pivotMap) ([]Bar, error) {
 			continue
 		}
 		cob.heapify()
-		kob.heapify()
 		for {
 			var piv entry
 			var ok bool
 			if packed {
 				var x uint64
 				if x, ok = kob.pivot(); ok {
-					piv = mkEntry(e.lengths[kob.rank(x)], kob.idx(x), kob.coef(x))
+					piv = mkEntry(e.lengths[kf.rank(x)], kf.idx(x), kf.coef(x))
 				}
 			} else {
 				piv, ok = cob.pivot(p)
