@@ -45,7 +45,9 @@
 // neighbour lists. The zero-persistence apparent pairs of edges are
 // found during the union–find pass with bit rows of the graph (a few
 // word operations per edge), and the filtration is bucket-sorted by
-// length.
+// length. A working column is a radix heap of one-word entries: the
+// pivots of a column only grow, so entries far above them are appended
+// once and never sifted.
 //
 // [CollapseEdges] shrinks the edge list first by the edge collapse of
 // J.-D. Boissonnat and S. Pritam, "Edge collapse and persistence of flag

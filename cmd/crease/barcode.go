@@ -75,7 +75,7 @@ func runBarcode(ctx context.Context, args []string, stdin io.Reader, stdout, std
 	set := &homology.Settings{MaxDim: *maxDim, Threshold: *threshold, Metric: m, K: *k, Field: *field}
 	// Edge collapse pays off where the reduction of triangles and
 	// tetrahedra dominates (H2 and up: 600 points on S² at threshold 1.0
-	// took 1.4 s plain and 0.16 s collapsed, bench/homology.sh), and for
+	// took 1.2 s plain and 0.03 s collapsed, bench/homology.sh), and for
 	// H≤1 where collapseGate says so; --collapse or --collapse=false
 	// overrides the choice.
 	useCollapse := *collapse
@@ -135,11 +135,11 @@ const collapseDensity = 0.25
 // Euclidean cloud x at the threshold (0: the enclosing radius). Measured
 // with `crease barcode --collapse=false` and `--collapse` (whole process,
 // H≤1, the clouds of bench/homology.sh), plain vs collapsed: torus2000 in
-// R³ at thr 1.0 (4.9 % of pairs are edges) 0.20 vs 0.13 s, thr 1.5
-// (11.7 %) 1.48 vs 0.21 s, but thr 3.0 (55 %) 9.4 vs 22 s and the
-// enclosing radius (80 %) 13.5 vs 21.5 s; at the enclosing radius the
-// R¹⁶ clusters (78 %) took 0.65 vs 3.1 s and the R⁶⁴ digits (82 %) 0.9 vs
-// 40 s, while the planar noisy circle (84 %) took 5.4 vs 0.22 s. So: a
+// R³ at thr 1.0 (4.9 % of pairs are edges) 0.22 vs 0.15 s, thr 1.5
+// (11.7 %) 1.13 vs 0.27 s, but thr 3.0 (55 %) 5.2 vs 24 s and the
+// enclosing radius (80 %) 7.1 vs 21.5 s; at the enclosing radius the
+// R¹⁶ clusters (78 %) took 0.70 vs 3.1 s and the R⁶⁴ digits (82 %) 0.8 vs
+// 40 s, while the planar noisy circle (84 %) took 3.4 vs 0.30 s. So: a
 // given threshold with at most collapseDensity of the pairs within it,
 // or a cloud in the plane. Other metrics were not measured and keep the
 // plain path.
