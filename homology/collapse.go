@@ -363,76 +363,58 @@ func collapseInput(ctx context.Context, d Distances, threshold float64) ([]cEdge
 			}
 		}
 	}
-	sortEdges(edges)
+	if err := sortEdges(ctx, edges); err != nil {
+		return nil, err
+	}
 	return edges, nil
 }
 
-// sortEdges sorts the edges by (length, a, b). Lengths are not negative
-// (−0 aside) nor NaN, so their bits, as integers, are in the same order:
-// a least-significant-digit radix sort on them, then a sort of each run
-// of equal lengths, is about ten times faster than a comparison sort of
-// the edges of a large cloud.
-func sortEdges(edges []cEdge) {
-	byEnds := func(x, y cEdge) int {
-		if c := cmp.Compare(x.a, y.a); c != 0 {
-			return c
+// sortEdges sorts the edges by (length, a, b) in the length buckets of
+// sortFiltration: one pass counts and one distributes the edges, then
+// each bucket is sorted in the cache, on all cores.
+func sortEdges(ctx context.Context, edges []cEdge) error {
+	order := func(x, y cEdge) int {
+		switch {
+		case x.d < y.d:
+			return -1
+		case x.d > y.d:
+			return 1
+		case x.a != y.a:
+			return cmp.Compare(x.a, y.a)
 		}
 		return cmp.Compare(x.b, y.b)
 	}
-	if len(edges) < radixMin {
-		slices.SortFunc(edges, func(x, y cEdge) int {
-			switch {
-			case x.d < y.d:
-				return -1
-			case x.d > y.d:
-				return 1
-			}
-			return byEnds(x, y)
-		})
-		return
+	if len(edges) < bucketMin {
+		slices.SortFunc(edges, order)
+		return nil
 	}
-	key := func(d float64) uint64 { return math.Float64bits(d + 0) } // −0 as +0
-	const bits, buckets = 11, 1 << 11
-	var count [(64 + bits - 1) / bits][buckets]int
+	lo, hi := edges[0].d, edges[0].d
 	for _, e := range edges {
-		k := key(e.d)
-		for p := range count {
-			count[p][k>>(p*bits)&(buckets-1)]++
-		}
+		lo, hi = min(lo, e.d), max(hi, e.d)
 	}
-	src, dst := edges, make([]cEdge, len(edges))
-	for p := range count {
-		c := &count[p]
-		if c[key(src[0].d)>>(p*bits)&(buckets-1)] == len(src) {
-			continue // one digit for all
-		}
-		at := 0
-		for b, n := range c {
-			c[b] = at
-			at += n
-		}
-		for _, e := range src {
-			b := key(e.d) >> (p * bits) & (buckets - 1)
-			dst[c[b]] = e
-			c[b]++
-		}
-		src, dst = dst, src
+	bk, ok := newLengthBuckets(lo, hi, len(edges), false)
+	if !ok {
+		slices.SortFunc(edges, order)
+		return nil
 	}
-	copy(edges, src)
-	for i := 0; i < len(edges); {
-		j := i + 1
-		for j < len(edges) && edges[j].d == edges[i].d {
-			j++
-		}
-		if j-i > 1 {
-			slices.SortFunc(edges[i:j], byEnds)
-		}
-		i = j
+	start := make([]int, bk.n+1)
+	for _, e := range edges {
+		start[bk.of(e.d)+1]++
 	}
+	buf := make([]cEdge, len(edges))
+	fill := bucketStarts(start)
+	for _, e := range edges {
+		b := bk.of(e.d)
+		buf[fill[b]] = e
+		fill[b]++
+	}
+	err := sortBuckets(ctx, start, func(i, j int) { slices.SortFunc(buf[i:j], order) })
+	if err != nil {
+		return err
+	}
+	copy(edges, buf)
+	return nil
 }
-
-// radixMin is the number of edges from which sortEdges sorts by radix.
-const radixMin = 4096
 
 // checkSparse checks the edge list s as NewSparse does and returns how
 // many of its lengths keep accepts.

@@ -376,13 +376,13 @@ func BenchmarkCollapse(b *testing.B) {
 	}
 }
 
-// TestSortEdges checks the radix sort of the collapse input against the
-// comparison sort of Go's standard library (slices.SortFunc), bit for
-// bit, with many ties, −0 next to +0, and sizes below and above
-// radixMin.
+// TestSortEdges checks the bucket sort of the collapse input against
+// the comparison sort of Go's standard library (slices.SortFunc), bit
+// for bit, with many ties, −0 next to +0, and sizes below and above
+// bucketMin.
 func TestSortEdges(t *testing.T) {
 	rng := rand.New(rand.NewPCG(41, 42))
-	for _, m := range []int{0, 1, 7, radixMin - 1, radixMin, 3 * radixMin} {
+	for _, m := range []int{0, 1, 7, bucketMin - 1, bucketMin, 3 * bucketMin} {
 		for _, pool := range []int{3, 100, 1 << 30} {
 			edges := make([]cEdge, m)
 			seen := map[[2]int32]bool{}
@@ -411,7 +411,9 @@ func TestSortEdges(t *testing.T) {
 				}
 				return cmp.Compare(x.b, y.b)
 			})
-			sortEdges(edges)
+			if err := sortEdges(context.Background(), edges); err != nil {
+				t.Fatal(err)
+			}
 			for k, e := range edges {
 				if w := want[k]; e.a != w.a || e.b != w.b || math.Float64bits(e.d) != math.Float64bits(w.d) {
 					t.Fatalf("m=%d pool=%d: edge %d is %v, want %v", m, pool, k, e, w)

@@ -126,20 +126,18 @@ func merge(dst, a, b []simplex, order func(a, b simplex) int) {
 // comparison sort.
 const bucketMin = 1 << 12
 
-// bucketSize is the mean number of simplices per bucket of
-// sortFiltration: small enough that a bucket sorts within the cache.
+// bucketSize is the mean number of elements per bucket of bucketSort:
+// small enough that a bucket sorts within the cache.
 const bucketSize = 32
 
 // sortFiltration sorts s in filtration order (filtrationOrder) or, with
 // reverse, in the opposite order. It distributes the simplices into
-// buckets by length, in one pass that reads and one that writes s's
-// elements (interpolating the length between the least and the greatest
-// is monotone in floating point, so the buckets are in order), then sorts
-// each bucket in the cache, the buckets shared among all cores. Unlike a
+// buckets by length (see lengthBuckets), in one pass that reads and one
+// that writes them, then sorts each bucket in the cache, short ones by
+// insertion, the buckets shared among all cores (sortBuckets). Unlike a
 // comparison sort of all of s this touches main memory a fixed number
-// of times. Lengths that are all equal or not all finite fall back to
-// parallelSort. It uses a buffer as long as s, and checks ctx between
-// groups of buckets.
+// of times. Lengths that lengthBuckets refuses fall back to
+// parallelSort. It uses a buffer as long as s.
 func sortFiltration(ctx context.Context, s []simplex, reverse bool) error {
 	order := filtrationOrder
 	if reverse {
@@ -153,36 +151,81 @@ func sortFiltration(ctx context.Context, s []simplex, reverse bool) error {
 	for _, x := range s {
 		lo, hi = min(lo, x.d), max(hi, x.d)
 	}
-	if !(hi > lo) || isInf(hi) || math.IsNaN(lo) || math.IsNaN(hi) {
+	bk, ok := newLengthBuckets(lo, hi, len(s), reverse)
+	if !ok {
 		return parallelSort(ctx, s, order)
 	}
-	nb := 1 << bits.Len(uint(len(s)/bucketSize))
-	scale := float64(nb) / (hi - lo)
-	if isInf(scale) { // subnormal spread
-		return parallelSort(ctx, s, order)
-	}
-	bucket := func(d float64) int {
-		b := max(0, min(int((d-lo)*scale), nb-1))
-		if reverse {
-			b = nb - 1 - b
-		}
-		return b
-	}
-	start := make([]int, nb+1)
+	start := make([]int, bk.n+1)
 	for _, x := range s {
-		start[bucket(x.d)+1]++
-	}
-	for b := 1; b <= nb; b++ {
-		start[b] += start[b-1]
+		start[bk.of(x.d)+1]++
 	}
 	buf := make([]simplex, len(s))
-	fill := slices.Clone(start[:nb])
+	fill := bucketStarts(start)
 	for _, x := range s {
-		b := bucket(x.d)
+		b := bk.of(x.d)
 		buf[fill[b]] = x
 		fill[b]++
 	}
-	// Groups of buckets of about sortChunk simplices, one job each.
+	err := sortBuckets(ctx, start, func(i, j int) {
+		if a := buf[i:j]; len(a) <= 48 {
+			insertionSort(a, reverse)
+		} else {
+			slices.SortFunc(a, order)
+		}
+	})
+	if err != nil {
+		return err
+	}
+	copy(s, buf)
+	return nil
+}
+
+// lengthBuckets maps lengths to buckets in order: interpolating a
+// length between the least and the greatest is monotone in floating
+// point, so a shorter length never lands in a later bucket (with
+// reverse, an earlier one).
+type lengthBuckets struct {
+	lo, scale float64
+	n         int
+	reverse   bool
+}
+
+// newLengthBuckets returns buckets for count lengths in [lo, hi], about
+// bucketSize a bucket, and false when the lengths are all equal, not all
+// finite, or spread over a subnormal range.
+func newLengthBuckets(lo, hi float64, count int, reverse bool) (lengthBuckets, bool) {
+	if !(hi > lo) || isInf(hi) || math.IsNaN(lo) || math.IsNaN(hi) {
+		return lengthBuckets{}, false
+	}
+	n := 1 << bits.Len(uint(count/bucketSize))
+	scale := float64(n) / (hi - lo)
+	return lengthBuckets{lo, scale, n, reverse}, !isInf(scale)
+}
+
+// of returns the bucket of length d.
+func (bk lengthBuckets) of(d float64) int {
+	b := max(0, min(int((d-bk.lo)*bk.scale), bk.n-1))
+	if bk.reverse {
+		b = bk.n - 1 - b
+	}
+	return b
+}
+
+// bucketStarts turns start, whose entry b+1 counts the elements of
+// bucket b, into the bucket boundaries and returns a copy of the starts
+// for filling.
+func bucketStarts(start []int) []int {
+	for b := 1; b < len(start); b++ {
+		start[b] += start[b-1]
+	}
+	return slices.Clone(start[:len(start)-1])
+}
+
+// sortBuckets calls sortRange(start[b], start[b+1]) for every bucket b
+// with more than one element, groups of buckets of about sortChunk
+// elements as one job each, on all cores; it checks ctx between jobs.
+func sortBuckets(ctx context.Context, start []int, sortRange func(i, j int)) error {
+	nb := len(start) - 1
 	var cuts []int
 	for b := 0; b < nb; {
 		e := b + 1
@@ -193,18 +236,11 @@ func sortFiltration(ctx context.Context, s []simplex, reverse bool) error {
 		b = e
 	}
 	cuts = append(cuts, nb)
-	err := parallelJobs(ctx, len(cuts)-1, func(j int) {
+	return parallelJobs(ctx, len(cuts)-1, func(j int) {
 		for b := cuts[j]; b < cuts[j+1]; b++ {
-			if a := buf[start[b]:start[b+1]]; len(a) <= 48 {
-				insertionSort(a, reverse)
-			} else {
-				slices.SortFunc(a, order)
+			if start[b+1]-start[b] > 1 {
+				sortRange(start[b], start[b+1])
 			}
 		}
 	})
-	if err != nil {
-		return err
-	}
-	copy(s, buf)
-	return nil
 }
