@@ -371,7 +371,10 @@ func collapseInput(ctx context.Context, d Distances, threshold float64) ([]cEdge
 
 // sortEdges sorts the edges by (length, a, b) in the length buckets of
 // sortFiltration: one pass counts and one distributes the edges, then
-// each bucket is sorted in the cache, on all cores.
+// each bucket is sorted in the cache, on all cores. The two passes
+// repeat sortFiltration's on purpose: written once for both element
+// types, with the length read through a function, they took 1.7× as
+// long (BenchmarkSortFiltration, 48 against 81 ms per 2²⁰ simplices).
 func sortEdges(ctx context.Context, edges []cEdge) error {
 	order := func(x, y cEdge) int {
 		switch {

@@ -152,38 +152,51 @@ func sqDist(x, y []float64) float64 {
 // cosine returns the cosine dissimilarities of the cloud.
 func cosine(ctx context.Context, c *cloud) (*LowerTriangular, error) {
 	n := c.n
-	norm := make([]float64, n)
-	for i := range norm {
-		s := 0.0
-		for _, v := range c.row(i) {
-			s += v * v
-		}
-		if s == 0 {
-			return nil, fmt.Errorf("homology: cosine metric: row %d is the zero vector", i)
-		}
-		norm[i] = math.Sqrt(s)
+	norm, err := cosineNorms(c)
+	if err != nil {
+		return nil, err
 	}
 	data := make([]float64, n*(n-1)/2)
-	err := parallelRows(ctx, n, func(i int) {
+	err = parallelRows(ctx, n, func(i int) {
 		xi := c.row(i)
 		out := data[i*(i-1)/2 : i*(i-1)/2+i]
 		for j := range out {
-			xj := c.row(j)[:len(xi)]
-			s := 0.0
-			for k, v := range xi {
-				s += v * xj[k]
-			}
-			d := 1 - s/(norm[i]*norm[j])
-			if d < 0 {
-				d = 0
-			}
-			out[j] = d
+			out[j] = cosineDissim(xi, c.row(j), norm[i], norm[j])
 		}
 	})
 	if err != nil {
 		return nil, err
 	}
 	return &LowerTriangular{N: n, Data: data}, nil
+}
+
+// cosineNorms returns the Euclidean norms of the rows of c, refusing a
+// zero row (its cosine is undefined).
+func cosineNorms(c *cloud) ([]float64, error) {
+	norm := make([]float64, c.n)
+	for i := range norm {
+		if norm[i] = math.Sqrt(dot(c.row(i), c.row(i))); norm[i] == 0 {
+			return nil, fmt.Errorf("homology: cosine metric: row %d is the zero vector", i)
+		}
+	}
+	return norm, nil
+}
+
+// cosineDissim returns 1 − cos(x, y), at least 0, for x and y of norms
+// nx and ny.
+func cosineDissim(x, y []float64, nx, ny float64) float64 {
+	return max(1-dot(x, y)/(nx*ny), 0)
+}
+
+// dot returns the inner product of x and y (len(y) ≥ len(x)), summed in
+// order.
+func dot(x, y []float64) float64 {
+	y = y[:len(x)]
+	s := 0.0
+	for k, v := range x {
+		s += v * y[k]
+	}
+	return s
 }
 
 // knnGeodesic replaces Euclidean distances e by hop counts on the

@@ -71,18 +71,16 @@ func keysOf(c *cloud, r resolved) (*edgeKeys, error) {
 		}, nil
 	case Cosine:
 		// The arithmetic of the cosine function, for the same bits.
-		norm := make([]float64, c.n)
-		for i := range norm {
-			if norm[i] = math.Sqrt(dot(c.row(i), c.row(i))); norm[i] == 0 {
-				return nil, fmt.Errorf("homology: cosine metric: row %d is the zero vector", i)
-			}
+		norm, err := cosineNorms(c)
+		if err != nil {
+			return nil, err
 		}
 		same := func(x float64) float64 { return x }
 		return &edgeKeys{
 			keys: func(i int, dst []float64) {
 				xi := c.row(i)
 				for j := range dst {
-					dst[j] = max(1-dot(xi, c.row(j))/(norm[i]*norm[j]), 0)
+					dst[j] = cosineDissim(xi, c.row(j), norm[i], norm[j])
 				}
 			},
 			bound: same,
@@ -90,17 +88,6 @@ func keysOf(c *cloud, r resolved) (*edgeKeys, error) {
 		}, nil
 	}
 	return nil, fmt.Errorf("%w: edge lists of the %v metric need the whole k-NN graph; use PointDistances", ErrSettings, r.metric)
-}
-
-// dot returns the inner product of x and y (len(y) ≥ len(x)), summed in
-// order.
-func dot(x, y []float64) float64 {
-	y = y[:len(x)]
-	s := 0.0
-	for k, v := range x {
-		s += v * y[k]
-	}
-	return s
 }
 
 // sqBound returns the largest b with math.Sqrt(b) ≤ t, so that a squared

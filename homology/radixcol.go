@@ -71,27 +71,16 @@ func (c *radixColumn) push(x uint64) {
 	c.count++
 }
 
-// grow doubles the capacity of bucket b; a large bucket in which many
-// entries repeat a simplex is compacted instead (see entryHeap.grow).
+// grow makes room in bucket b by keyHeap.grow: it doubles the capacity,
+// and compacts a large bucket in which many entries repeat a simplex
+// instead (the order within a bucket does not matter).
 func (c *radixColumn) grow(b int) {
-	a := c.bucket[b]
-	if cap(a) >= 2*minCompact && worthCompacting(a, c.f.simplexKey) {
-		h := c.f
-		h.a = a
-		h.compact()
-		c.count -= len(a) - len(h.a)
-		c.bucket[b] = h.a
-		if 2*len(h.a) <= cap(h.a) {
-			return
-		}
-		a = h.a
-	}
-	n := make([]uint64, len(a), max(2*cap(a), 256))
-	copy(n, a)
-	c.bucket[b] = n
-	if cap(a) >= minCompact {
-		debug.FreeOSMemory()
-	}
+	h := c.f
+	h.a = c.bucket[b]
+	n := len(h.a)
+	h.grow()
+	c.count -= n - len(h.a)
+	c.bucket[b] = h.a
 }
 
 // take removes and returns the least entry (by simplex; any of equal

@@ -89,6 +89,7 @@ func (e *engine) dim0() ([]Bar, []simplex, error) {
 	var bars []Bar
 	var columns []simplex
 	var w [2]int32
+	var ends [][2]int32 // scratch: the ends of a group of equal lengths
 	wantCols := e.maxDim >= 1
 	var eb *edgeBits
 	if wantCols {
@@ -102,8 +103,15 @@ func (e *engine) dim0() ([]Bar, []simplex, error) {
 		for h < len(edges) && edges[h].d == edges[g].d {
 			h++
 		}
+		// The ends of the group's edges, decoded once for the bits and
+		// the union–find.
+		ends = ends[:0]
+		for _, s := range edges[g:h] {
+			e.vertices(s.i, 2, w[:])
+			ends = append(ends, w)
+		}
 		if eb != nil {
-			eb.add(eb.le, edges[g:h], e)
+			eb.add(eb.le, ends)
 		}
 		for k := g; k < h; k++ {
 			s := edges[k]
@@ -113,7 +121,7 @@ func (e *engine) dim0() ([]Bar, []simplex, error) {
 					return nil, nil, err
 				}
 			}
-			e.vertices(s.i, 2, w[:])
+			w := ends[k-g]
 			u, v := find(w[0]), find(w[1])
 			if u != v {
 				if s.d > 0 {
@@ -138,7 +146,7 @@ func (e *engine) dim0() ([]Bar, []simplex, error) {
 			columns = append(columns, s)
 		}
 		if eb != nil {
-			eb.add(eb.lt, edges[g:h], e)
+			eb.add(eb.lt, ends)
 		}
 		g = h
 	}
@@ -197,11 +205,9 @@ func (e *engine) newEdgeBits() *edgeBits {
 	return &edgeBits{words: words, le: make([]uint64, size), lt: make([]uint64, size)}
 }
 
-// add sets the bits of the edges in m.
-func (b *edgeBits) add(m []uint64, edges []simplex, e *engine) {
-	var w [2]int32
-	for _, s := range edges {
-		e.vertices(s.i, 2, w[:])
+// add sets in m the bits of the edges whose ends are listed.
+func (b *edgeBits) add(m []uint64, ends [][2]int32) {
+	for _, w := range ends {
 		x, y := int(w[0]), int(w[1])
 		m[x*b.words+y>>6] |= 1 << (y & 63)
 		m[y*b.words+x>>6] |= 1 << (x & 63)
