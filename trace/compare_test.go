@@ -27,7 +27,7 @@ func TestCompare(t *testing.T) {
 	stages := projectModel()
 	stages[2].W = mat.NewDense(2, 2, []float64{1, 0, 0, 0.5})
 	set := trace.DefaultSettings()
-	set.Scale = 0.2
+	set.Rule, set.Scale = trace.ScaleRelative, 0.2
 	b, err := trace.Run(context.Background(), stages, circles(t), set)
 	if err != nil {
 		t.Fatal(err)

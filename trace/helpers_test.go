@@ -45,7 +45,7 @@ func projectModel() []onnxload.Stage {
 // circleTrace runs projectModel on circles at relative scale 0.2.
 func circleTrace(t testing.TB) *trace.Trace {
 	set := trace.DefaultSettings()
-	set.Scale = 0.2
+	set.Rule, set.Scale = trace.ScaleRelative, 0.2
 	tr, err := trace.Run(context.Background(), projectModel(), circles(t), set)
 	if err != nil {
 		t.Fatal(err)

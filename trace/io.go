@@ -118,9 +118,9 @@ func (t *Trace) WriteTable(w io.Writer) error {
 	fmt.Fprint(tw, "\tglued within\tglued cross\n")
 	for i := range t.Stages {
 		s := &t.Stages[i]
-		fmt.Fprintf(tw, "%d\t%s\t%d\t%s", s.Index, s.Kind, s.Width, bettiString(s.Whole.Betti))
+		fmt.Fprintf(tw, "%d\t%s\t%d\t%s", s.Index, s.Kind, s.Width, s.Whole.BettiString())
 		for c := range s.Classes {
-			fmt.Fprintf(tw, "\t%s", bettiString(s.Classes[c].Betti))
+			fmt.Fprintf(tw, "\t%s", s.Classes[c].BettiString())
 		}
 		if s.Glued != nil {
 			fmt.Fprintf(tw, "\t%d\t%d\n", s.Glued.Within, s.Glued.Cross)
@@ -132,15 +132,49 @@ func (t *Trace) WriteTable(w io.Writer) error {
 }
 
 // bettiString formats Betti numbers as (b0, b1, ...), "-" when absent.
-func bettiString(b []int) string {
+func bettiString(b []int) string { return readingString(b, nil) }
+
+// readingString formats Betti numbers as (b0, b1, ...), each followed
+// by "?" where conf says the dimension is undetermined; "-" when absent.
+// A nil conf marks nothing.
+func readingString(b []int, conf []bool) string {
 	if len(b) == 0 {
 		return "-"
 	}
 	parts := make([]string, len(b))
 	for i, v := range b {
 		parts[i] = strconv.Itoa(v)
+		if conf != nil && (i >= len(conf) || !conf[i]) {
+			parts[i] += "?"
+		}
 	}
 	return "(" + strings.Join(parts, ",") + ")"
+}
+
+// BettiString formats the group's Betti numbers as (b0,b1,…), with "?"
+// after each undetermined dimension, e.g. "(1,2,?)" reads "(1,2,1?)".
+func (g *Group) BettiString() string {
+	if g.BettiConfident == nil {
+		return bettiString(g.Betti)
+	}
+	return readingString(g.Betti, g.BettiConfident)
+}
+
+// RuleText describes how the Betti numbers of a trace with these
+// (resolved) settings were read, for tables and reports.
+func (s Settings) RuleText() string {
+	var p string
+	switch s.Rule {
+	case ScaleRatio:
+		p = fmt.Sprintf("α = %g, k = %d", s.Alpha, s.K)
+	case ScaleRelative:
+		p = fmt.Sprintf("ε = %g × diameter", s.Scale)
+	case ScalePersistence:
+		p = fmt.Sprintf("persistence ≥ %g × diameter", s.Persistence)
+	case ScaleHops:
+		p = fmt.Sprintf("k = %d, %d hops", s.K, s.Hops)
+	}
+	return fmt.Sprintf("rule %s (%s): %s; \"?\" marks a dimension the sample cannot decide", s.Rule, p, s.Rule.Describe())
 }
 
 // String returns the per-stage table of WriteTable.

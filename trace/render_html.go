@@ -75,9 +75,9 @@ svg{max-width:100%;height:auto}
 	b.WriteString("<th>glued within</th><th>glued across</th></tr>\n")
 	for i := range t.Stages {
 		s := &t.Stages[i]
-		fmt.Fprintf(&b, "<tr><td>%d</td><td class=\"l\">%s</td><td>%d</td><td>%s</td>", s.Index, e(s.Kind), s.Width, bettiString(s.Whole.Betti))
+		fmt.Fprintf(&b, "<tr><td>%d</td><td class=\"l\">%s</td><td>%d</td><td>%s</td>", s.Index, e(s.Kind), s.Width, s.Whole.BettiString())
 		for c := range s.Classes {
-			fmt.Fprintf(&b, "<td>%s</td>", bettiString(s.Classes[c].Betti))
+			fmt.Fprintf(&b, "<td>%s</td>", s.Classes[c].BettiString())
 		}
 		if s.Glued != nil {
 			fmt.Fprintf(&b, "<td>%d</td><td>%d</td></tr>\n", s.Glued.Within, s.Glued.Cross)
@@ -85,7 +85,7 @@ svg{max-width:100%;height:auto}
 			b.WriteString("<td>-</td><td>-</td></tr>\n")
 		}
 	}
-	b.WriteString("</table>\n<p class=\"note\">Betti numbers are written (β₀,β₁,…).</p>\n")
+	b.WriteString("</table>\n<p class=\"note\">Betti numbers are written (β₀,β₁,…); a “?” follows a dimension the sample cannot decide (the number before it is the best guess).</p>\n")
 	if k := t.First(0, AllSimple); k >= 0 {
 		fmt.Fprintf(&b, "<p>Every class is first one component with no holes at stage %d (%s), %s.</p>\n",
 			k, e(t.Stages[k].Kind), yesNo(simpleFrom(t, k)))
@@ -166,17 +166,7 @@ func figure(b *bytes.Buffer, caption string, plot func(io.Writer) error) error {
 }
 
 func settingsLine(s *Settings) string {
-	var rule string
-	switch s.Rule {
-	case ScaleRelative:
-		rule = fmt.Sprintf("Betti numbers at ε = %g × diameter", s.Scale)
-	case ScalePersistence:
-		rule = fmt.Sprintf("bars with persistence ≥ %g × diameter", s.Persistence)
-	case ScaleHops:
-		rule = fmt.Sprintf("k-NN hop metric, k = %d, at %d hops", s.K, s.Hops)
-	default:
-		rule = s.Rule.String()
-	}
+	rule := s.RuleText()
 	cap := "none"
 	if s.Cap > 0 {
 		cap = fmt.Sprint(s.Cap)

@@ -136,6 +136,7 @@ func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings)
 		st.Whole = Group{Count: n}
 		if rs.SkipWhole {
 			st.Whole.Betti, st.Whole.Bars = []int{}, [][]Bar{}
+			st.Whole.BettiConfident, st.Whole.Evidence = []bool{}, []Evidence{}
 		}
 		st.Classes = make([]Group, len(s.Classes))
 		for c := range s.Classes {
@@ -299,41 +300,28 @@ func diameter(m *mat.Dense) float64 {
 }
 
 // group computes the barcode and Betti numbers of rows idx of cloud
-// into g by the scale rule.
+// into g by the scale rule (homology.Read).
 func group(ctx context.Context, g *Group, cloud *mat.Dense, idx []int, rs Settings) error {
 	pts := rowsOf(cloud, idx)
 	diam := diameter(pts)
-	hs := &homology.Settings{MaxDim: rs.MaxDim}
-	switch rs.Rule {
-	case ScaleRelative:
-		hs.Threshold = rs.Scale * diam
-	case ScalePersistence:
-		hs.Threshold = rs.MaxThreshold * diam
-	case ScaleHops:
-		hs.Metric = homology.KNNGeodesic
-		hs.K = min(rs.K, g.Count-1)
-		hs.Threshold = float64(rs.Hops)
-	}
-	if diam == 0 && rs.Rule != ScaleHops {
-		// Every point is the same: one component, nothing else. The
-		// Rips complex is a full simplex at every scale.
-		g.Diameter, g.Scale, g.Threshold = 0, 0, 0
-		g.Betti = make([]int, rs.MaxDim+1)
-		g.Betti[0] = 1
-		g.Bars = make([][]Bar, rs.MaxDim+1)
-		g.Bars[0] = []Bar{{Birth: 0, Death: math.Inf(1)}}
-		for d := 1; d <= rs.MaxDim; d++ {
-			g.Bars[d] = []Bar{}
-		}
-		return nil
-	}
-	bc, err := homology.Rips(ctx, pts, hs)
+	rd, err := homology.Read(ctx, pts, &homology.ReadSettings{
+		Rule: rs.Rule, MaxDim: rs.MaxDim, Alpha: rs.Alpha, Scale: rs.Scale,
+		Persistence: rs.Persistence, MaxThreshold: rs.MaxThreshold, K: min(rs.K, g.Count-1), Hops: rs.Hops,
+	})
 	if err != nil {
 		return err
 	}
+	bc := rd.Barcode
 	g.Diameter = diam
 	g.Threshold = bc.Threshold
 	g.Truncated = bc.Truncated
+	g.Scale = rd.Scale
+	g.Betti = rd.Betti
+	g.BettiConfident = rd.Confident
+	g.Evidence = make([]Evidence, len(rd.Evidence))
+	for d, ev := range rd.Evidence {
+		g.Evidence[d] = evidenceOf(ev)
+	}
 	g.Bars = make([][]Bar, len(bc.Bars))
 	for d, bars := range bc.Bars {
 		g.Bars[d] = make([]Bar, len(bars))
@@ -341,23 +329,16 @@ func group(ctx context.Context, g *Group, cloud *mat.Dense, idx []int, rs Settin
 			g.Bars[d][k] = Bar{Birth: b.Birth, Death: b.Death}
 		}
 	}
-	switch rs.Rule {
-	case ScaleRelative:
-		g.Scale = rs.Scale * diam
-		g.Betti = bc.Betti(g.Scale)
-	case ScaleHops:
-		g.Scale = float64(rs.Hops)
-		g.Betti = bc.Betti(g.Scale)
-	case ScalePersistence:
-		g.Scale = rs.Persistence * diam
-		g.Betti = make([]int, len(g.Bars))
-		for d, bars := range g.Bars {
-			for _, b := range bars {
-				if b.Persistence() >= g.Scale {
-					g.Betti[d]++
-				}
-			}
-		}
-	}
 	return nil
+}
+
+// evidenceOf converts homology's evidence, with nil for +Inf and NaN.
+func evidenceOf(ev homology.Evidence) Evidence {
+	num := func(x float64) *float64 {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return nil
+		}
+		return &x
+	}
+	return Evidence{Lo: ev.Lo, Hi: num(ev.Hi), Weakest: num(ev.Weakest), Strongest: num(ev.Strongest), Bound: ev.Bound, Why: ev.Why}
 }

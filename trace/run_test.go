@@ -79,6 +79,7 @@ func TestRunRules(t *testing.T) {
 		name string
 		set  trace.Settings
 	}{
+		{"ratio", trace.Settings{MaxDim: 1, Rule: trace.ScaleRatio}},
 		{"persistence", trace.Settings{MaxDim: 1, Rule: trace.ScalePersistence, Persistence: 0.2}},
 		{"hops", trace.Settings{MaxDim: 1, Rule: trace.ScaleHops, K: 4, Hops: 1}},
 	} {

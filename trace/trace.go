@@ -105,10 +105,19 @@ type Group struct {
 	Label string `json:"label,omitempty"`
 	// Count is the number of points.
 	Count int `json:"count"`
-	// Betti[d] is the Betti number in dimension d read by the scale rule.
+	// Betti[d] is the best reading of the Betti number in dimension d
+	// by the scale rule.
 	Betti []int `json:"betti"`
+	// BettiConfident[d] is true when Betti[d] is significant under the
+	// rule's own criterion; false marks dimension d undetermined (the
+	// sample cannot decide it; Betti[d] is then the best guess).
+	BettiConfident []bool `json:"betti_confident"`
+	// Evidence[d] is what the reading of dimension d rests on.
+	Evidence []Evidence `json:"evidence"`
 	// Scale is the ε at which Betti was read (for ScalePersistence, the
-	// minimum persistence counted), in units of the metric.
+	// minimum persistence counted; for ScaleRatio, the sampling scale:
+	// the largest distance from a point to its K-th nearest neighbour),
+	// in units of the metric.
 	Scale float64 `json:"scale"`
 	// Diameter is the largest Euclidean distance between two points.
 	Diameter float64 `json:"diameter"`
@@ -123,6 +132,25 @@ type Group struct {
 	// "voronoi.inside" on softmax stages); empty for the whole sample.
 	// Undefined measures are absent rather than NaN.
 	Measures map[string]float64 `json:"measures,omitempty"`
+}
+
+// Evidence is what the reading of one dimension of a group rests on
+// (homology.Evidence).
+type Evidence struct {
+	// Lo and Hi bound the scales over which the reading holds: every
+	// counted class is alive on [Lo, Hi). Hi is nil when the classes
+	// outlive the computation (+Inf).
+	Lo float64  `json:"lo"`
+	Hi *float64 `json:"hi"`
+	// Weakest is the significance of the weakest counted bar and
+	// Strongest that of the strongest bar left out (p-values under
+	// ScaleRatio; see homology.Evidence); nil when there is none.
+	Weakest   *float64 `json:"weakest,omitempty"`
+	Strongest *float64 `json:"strongest,omitempty"`
+	// Bound is the significance bound a counted bar had to pass.
+	Bound float64 `json:"bound"`
+	// Why says why the dimension is undetermined; empty when confident.
+	Why string `json:"why,omitempty"`
 }
 
 // Bar is one persistence interval [Birth, Death). Death is +Inf for an
@@ -195,51 +223,32 @@ func (t *Timing) HomologyShare() float64 {
 	return float64(t.Homology) / float64(s)
 }
 
-// ScaleRule selects how Betti numbers are read from barcodes.
-type ScaleRule int
+// ScaleRule selects how Betti numbers are read from barcodes; it is
+// homology.Rule, so the library, the CLI, the report and the JSON share
+// one description of each rule (homology.Rule.Describe).
+type ScaleRule = homology.Rule
 
 const (
-	// ScaleRelative reads Betti numbers at ε = Scale × diameter. It is
-	// the zero value.
-	ScaleRelative ScaleRule = iota
+	// ScaleRatio counts bars whose death/birth ratio is significant
+	// (homology.RuleRatio). It is the zero value and the default.
+	ScaleRatio = homology.RuleRatio
+	// ScaleRelative reads Betti numbers at ε = Scale × diameter.
+	ScaleRelative = homology.RuleRelative
 	// ScalePersistence counts bars with persistence ≥ Persistence ×
 	// diameter (bars alive at the threshold count).
-	ScalePersistence
+	ScalePersistence = homology.RulePersistence
 	// ScaleHops uses the k-NN hop-count metric and reads at ε = Hops.
-	ScaleHops
+	ScaleHops = homology.RuleHops
 )
 
-// String returns "relative", "persistence" or "hops".
-func (r ScaleRule) String() string {
-	switch r {
-	case ScaleRelative:
-		return "relative"
-	case ScalePersistence:
-		return "persistence"
-	case ScaleHops:
-		return "hops"
-	}
-	return fmt.Sprintf("ScaleRule(%d)", int(r))
-}
-
-// ParseScaleRule parses the String form of a ScaleRule.
+// ParseScaleRule parses the String form of a ScaleRule ("ratio",
+// "relative", "persistence" or "hops").
 func ParseScaleRule(s string) (ScaleRule, error) {
-	for r := ScaleRelative; r <= ScaleHops; r++ {
-		if r.String() == s {
-			return r, nil
-		}
+	r, err := homology.ParseRule(s)
+	if err != nil {
+		return 0, fmt.Errorf("trace: unknown scale rule %q (want ratio, relative, persistence or hops)", s)
 	}
-	return 0, fmt.Errorf("trace: unknown scale rule %q (want relative, persistence or hops)", s)
-}
-
-// MarshalText implements encoding.TextMarshaler.
-func (r ScaleRule) MarshalText() ([]byte, error) { return []byte(r.String()), nil }
-
-// UnmarshalText implements encoding.TextUnmarshaler.
-func (r *ScaleRule) UnmarshalText(b []byte) error {
-	v, err := ParseScaleRule(string(b))
-	*r = v
-	return err
+	return r, nil
 }
 
 // Defaults used for zero Settings fields.
@@ -248,15 +257,25 @@ const (
 	// trace of a small MLP within seconds on 2 cores (measured on the
 	// demo model, see BenchmarkRun).
 	DefaultCap = 120
-	// DefaultScale is the relative scale (a value from common practice).
-	DefaultScale = 0.1
-	// DefaultPersistence is the relative persistence threshold (common
-	// practice).
-	DefaultPersistence = 0.1
-	// DefaultK is the neighbour count of ScaleHops.
-	DefaultK = 8
+	// DefaultScale is the relative scale of ScaleRelative
+	// (homology.DefaultRelativeScale, common practice).
+	DefaultScale = homology.DefaultRelativeScale
+	// DefaultPersistence is the relative persistence threshold of
+	// ScalePersistence (homology.DefaultPersistence, common practice).
+	DefaultPersistence = homology.DefaultPersistence
+	// DefaultAlpha is the significance level of ScaleRatio
+	// (homology.DefaultAlpha).
+	DefaultAlpha = homology.DefaultAlpha
+	// DefaultK is the neighbour count of ScaleHops and of the sampling
+	// scale of ScaleRatio (homology.DefaultK).
+	DefaultK = homology.DefaultK
 	// DefaultHops is the hop-count scale of ScaleHops.
-	DefaultHops = 2
+	DefaultHops = homology.DefaultHops
+	// DefaultMaxDim is the highest homology dimension of
+	// DefaultSettings.
+	DefaultMaxDim = 1
+	// DefaultSeed is the seed of DefaultSettings and of the CLI.
+	DefaultSeed = 1
 	// DefaultOverlapK is the k of the k-NN agreement, overlap.DefaultK.
 	DefaultOverlapK = 5
 	// DefaultGlueTau is the gluing threshold (relu.GlueSettings.Tau).
@@ -274,8 +293,11 @@ type Settings struct {
 	// MaxDim is the highest homology dimension, 0..3. Zero computes H0
 	// only; DefaultSettings gives 1.
 	MaxDim int `json:"maxdim"`
-	// Rule is the scale rule; the zero value is ScaleRelative.
+	// Rule is the scale rule; the zero value is ScaleRatio.
 	Rule ScaleRule `json:"rule"`
+	// Alpha is the family-wise significance level of ScaleRatio; zero
+	// means DefaultAlpha.
+	Alpha float64 `json:"alpha"`
 	// Scale is the relative scale of ScaleRelative; zero means
 	// DefaultScale.
 	Scale float64 `json:"scale"`
@@ -325,9 +347,10 @@ type Settings struct {
 }
 
 // DefaultSettings returns the settings used for a nil *Settings: H0 and
-// H1, relative scale 0.1, per-class cap DefaultCap.
+// H1 (DefaultMaxDim) read by ScaleRatio, per-class cap DefaultCap, seed
+// DefaultSeed. The CLI's defaults are these.
 func DefaultSettings() *Settings {
-	return &Settings{MaxDim: 1}
+	return &Settings{MaxDim: DefaultMaxDim, Seed: DefaultSeed}
 }
 
 // Progress reports how far a run has got.
@@ -349,6 +372,9 @@ func (s Settings) resolve() (Settings, error) {
 	if s.Scale == 0 {
 		s.Scale = DefaultScale
 	}
+	if s.Alpha == 0 {
+		s.Alpha = DefaultAlpha
+	}
 	if s.Persistence == 0 {
 		s.Persistence = DefaultPersistence
 	}
@@ -368,7 +394,9 @@ func (s Settings) resolve() (Settings, error) {
 		s.Cap = DefaultCap
 	}
 	switch {
-	case s.Rule < ScaleRelative || s.Rule > ScaleHops:
+	case !(s.Alpha > 0 && s.Alpha < 1):
+		return s, fmt.Errorf("trace: alpha %v must lie in (0, 1)", s.Alpha)
+	case s.Rule < ScaleRatio || s.Rule > ScaleHops:
 		return s, fmt.Errorf("trace: unknown scale rule %d", int(s.Rule))
 	case !(s.Scale > 0) || math.IsInf(s.Scale, 0):
 		return s, fmt.Errorf("trace: scale %v must be positive", s.Scale)

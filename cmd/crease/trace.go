@@ -25,7 +25,7 @@ func init() {
 	})
 }
 
-const traceSynopsis = "MODEL.onnx DATA.csv|FEATURES.npy [--labels COL|LABELS.npy] [--maxdim D] [--metric euclidean|knn] [--rule relative|persistence|hops] [--per-class-cap N] [--seed S] [--out trace.json] [--csv long.csv]"
+const traceSynopsis = "MODEL.onnx DATA.csv|FEATURES.npy [--labels COL|LABELS.npy] [--maxdim D] [--metric euclidean|knn] [--rule ratio|relative|persistence|hops] [--per-class-cap N] [--seed S] [--out trace.json] [--csv long.csv]"
 
 // runTrace runs trace.RunFile and prints the per-stage table. For a CSV
 // sample --labels names the label column (header name or 1-based
@@ -35,17 +35,18 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 	fs := newFlagSet("trace", traceSynopsis, stderr)
 	labels := fs.String("labels", "", "CSV: label column (header name or 1-based number; default last); NPY: the labels .npy file")
 	header := fs.String("header", "auto", "CSV: is the first record a header: auto, yes or no")
-	maxDim := fs.Int("maxdim", 1, "highest homology dimension, 0..3")
-	metric := fs.String("metric", "euclidean", "euclidean (scale relative to each cloud's diameter) or knn (hop count on the k-NN graph; same as --rule hops)")
-	rule := fs.String("rule", "", "scale rule: relative, persistence or hops (default from --metric)")
+	maxDim := fs.Int("maxdim", trace.DefaultMaxDim, "highest homology dimension, 0..3")
+	metric := fs.String("metric", "euclidean", "euclidean or knn (hop count on the k-NN graph; same as --rule hops)")
+	rule := fs.String("rule", "", "how Betti numbers are read: ratio (default; significant death/birth ratios), relative, persistence or hops (default from --metric)")
+	alpha := fs.Float64("alpha", trace.DefaultAlpha, "ratio rule: family-wise significance level")
 	scale := fs.Float64("scale", trace.DefaultScale, "relative rule: read Betti numbers at this fraction of the diameter")
 	pers := fs.Float64("persistence", trace.DefaultPersistence, "persistence rule: count bars at least this fraction of the diameter long")
-	k := fs.Int("k", trace.DefaultK, "hops rule: neighbours in the k-NN graph")
+	k := fs.Int("k", trace.DefaultK, "hops rule: neighbours in the k-NN graph; ratio rule: neighbours of the sampling scale")
 	hops := fs.Int("hops", trace.DefaultHops, "hops rule: read Betti numbers at this hop count")
 	glueTau := fs.Float64("glue-tau", trace.DefaultGlueTau, "a pair is glued when its input distance exceeds this × the input's median nearest-neighbour distance and its output distance is at most this × the output's")
 	skipProbe := fs.Bool("skip-probe", false, "leave out the linear probe (the slowest measure)")
 	capN := fs.Int("per-class-cap", trace.DefaultCap, "at most this many points per class (seeded stratified subsample); negative means all")
-	seed := fs.Uint64("seed", 1, "seed of the subsample")
+	seed := fs.Uint64("seed", trace.DefaultSeed, "seed of the subsample")
 	fuse := fs.Bool("fuse", false, "fuse consecutive affine stages (the layer view)")
 	whole := fs.Bool("whole", true, "also compute the whole sample's homology")
 	out := fs.String("out", "", "write the trace as JSON to this file (atomically)")
@@ -59,7 +60,7 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 		fs.Usage()
 		return fmt.Errorf("usage: want MODEL and DATA arguments, got %d", len(pos))
 	}
-	set := &trace.Settings{MaxDim: *maxDim, Scale: *scale, Persistence: *pers, K: *k, Hops: *hops,
+	set := &trace.Settings{MaxDim: *maxDim, Alpha: *alpha, Scale: *scale, Persistence: *pers, K: *k, Hops: *hops,
 		Cap: *capN, Seed: *seed, Fuse: *fuse, SkipWhole: !*whole, GlueTau: *glueTau, SkipProbe: *skipProbe, Timing: *timing}
 	switch *metric {
 	case "euclidean":
@@ -113,16 +114,7 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 
 // ruleText describes the scale rule of resolved settings.
 func ruleText(s trace.Settings) string {
-	var r string
-	switch s.Rule {
-	case trace.ScaleRelative:
-		r = fmt.Sprintf("Betti numbers at %g × each cloud's diameter", s.Scale)
-	case trace.ScalePersistence:
-		r = fmt.Sprintf("bars at least %g × each cloud's diameter long", s.Persistence)
-	case trace.ScaleHops:
-		r = fmt.Sprintf("Betti numbers at %d hops on the %d-NN graph", s.Hops, s.K)
-	}
-	return fmt.Sprintf("%s, H0–H%d, seed %d", r, s.MaxDim, s.Seed)
+	return fmt.Sprintf("%s; H0–H%d, seed %d", s.RuleText(), s.MaxDim, s.Seed)
 }
 
 // readSample reads a CSV sample, or an NPY pair when data ends in .npy.

@@ -59,7 +59,7 @@ func TestTraceCommand(t *testing.T) {
 		if stderr.Len() != 0 {
 			t.Errorf("stderr is not a terminal but got %q", stderr.String())
 		}
-		if !strings.Contains(stdout.String(), "100 of 300 rows, 10 classes; Betti numbers at 0.1 × each cloud's diameter, H0–H1, seed 1") {
+		if !strings.Contains(stdout.String(), "100 of 300 rows, 10 classes; rule ratio (α = 0.05, k = 8)") {
 			t.Errorf("no settings line:\n%s", stdout.String())
 		}
 		if !strings.Contains(stdout.String(), "5      affine  10") {

@@ -1,0 +1,132 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package homology_test
+
+import (
+	"context"
+	"fmt"
+	"testing"
+
+	"gonum.org/v1/gonum/mat"
+
+	"crease.dev/crease/homology"
+	"crease.dev/crease/internal/spaces"
+)
+
+// suiteTally counts how the default reading fares on a set of cases.
+type suiteTally struct {
+	total, right, confident, confidentWrong int
+}
+
+// TestHatcherSuite reads random samples of spaces with textbook Betti
+// numbers (Hatcher, Algebraic Topology, 2002; each space names its
+// result in internal/spaces) at the default settings of Read, at H0–H2,
+// and checks the measured levels: they are regression floors, not the
+// target of 95 % right with no confident wrong reading, which the
+// default rule does not reach yet (see the README's table).
+func TestHatcherSuite(t *testing.T) {
+	sizes := []int{60, 150, 400}
+	if !testing.Short() {
+		sizes = append(sizes, 1000)
+	}
+	var small, large suiteTally
+	for _, c := range spaces.Suite(sizes) {
+		rd, err := homology.Read(context.Background(), c.Points(), &homology.ReadSettings{MaxDim: 2, Field: c.Field})
+		if err != nil {
+			t.Fatalf("%s: %v", c.Name(), err)
+		}
+		tl := &large
+		if c.N < 150 {
+			tl = &small
+		}
+		tl.total++
+		truth := c.Truth(2)
+		right, sure, cw := true, true, false
+		for d, b := range rd.Betti {
+			if b != truth[d] {
+				right = false
+				cw = cw || rd.Confident[d]
+			}
+			sure = sure && rd.Confident[d]
+		}
+		if right {
+			tl.right++
+			if sure {
+				tl.confident++
+			}
+		}
+		if cw {
+			tl.confidentWrong++
+			t.Logf("%s: confident wrong reading %v (truth %v), confident %v", c.Name(), rd.Betti, truth, rd.Confident)
+		}
+	}
+	t.Logf("n ≥ 150: %d of %d right (%.1f %%), %d right and confident, %d confident wrong", large.right, large.total, 100*float64(large.right)/float64(large.total), large.confident, large.confidentWrong)
+	t.Logf("n = 60: %d of %d right, %d confident wrong", small.right, small.total, small.confidentWrong)
+	// Measured floors (2026-12-02): 87 % right at n ≥ 150 with 3
+	// confident wrong readings among 260 (the stretched torus at 1000
+	// points read β₂ = 2, RP² over Z/3 read β₂ = 1 once).
+	floor := 0.85 // with the 1000-point samples, measured 87 %
+	if testing.Short() {
+		floor = 0.83 // without them, measured 84.6 %
+	}
+	if frac := float64(large.right) / float64(large.total); frac < floor {
+		t.Errorf("n ≥ 150: %.1f %% right, below the measured floor of %.0f %%", 100*frac, 100*floor)
+	}
+	if large.confidentWrong+small.confidentWrong > 3 {
+		t.Errorf("%d confident wrong readings, above the measured 3", large.confidentWrong+small.confidentWrong)
+	}
+	if small.confidentWrong > 0 {
+		t.Errorf("%d confident wrong readings at 60 points: small samples must be undetermined", small.confidentWrong)
+	}
+}
+
+// TestReadDisjointUnion checks that a sample made of pieces at very
+// different scales, far apart, reads as their disjoint union: Betti
+// numbers add (Hatcher, Proposition 2.6).
+func TestReadDisjointUnion(t *testing.T) {
+	all := spaces.All()
+	byName := map[string]spaces.Space{}
+	for _, s := range all {
+		byName[s.Name] = s
+	}
+	parts := []struct {
+		name   string
+		scale  float64
+		offset float64
+	}{
+		{"circle", 1, 0},
+		{"two-circles", 0.05, 100},
+		{"blobs", 20, 400},
+	}
+	e := spaces.Embedding{D: 8, Cond: 1}
+	var rows [][]float64
+	want := make([]int, 2)
+	for i, p := range parts {
+		sp := byName[p.name]
+		x := sp.Sample(300, 0.02, e, uint64(77+i))
+		n, d := x.Dims()
+		for r := range n {
+			row := make([]float64, d)
+			for j := range d {
+				row[j] = p.scale*x.At(r, j) + p.offset
+			}
+			rows = append(rows, row)
+		}
+		for k, b := range sp.Truth(2, 1) {
+			want[k] += b
+		}
+	}
+	m := mat.NewDense(len(rows), len(rows[0]), nil)
+	for i, r := range rows {
+		m.SetRow(i, r)
+	}
+	rd, err := homology.Read(context.Background(), m, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if fmt.Sprint(rd.Betti) != fmt.Sprint(want) {
+		t.Errorf("disjoint union reads %v (confident %v), want %v; evidence %+v", rd.Betti, rd.Confident, want, rd.Evidence)
+	}
+}
