@@ -36,7 +36,7 @@ func runDemo(ctx context.Context, args []string, stdin io.Reader, stdout, stderr
 	}
 	fmt.Fprintln(stdout, "crease demo: a planar two-joint arm; configurations (cos θ1, sin θ1, cos θ2, sin θ2) on the torus of joint angles,")
 	fmt.Fprintln(stdout, "classed clear / near / contact by the clearance to a disc obstacle; 300 points per class.")
-	fmt.Fprintln(stdout, "Betti numbers are (β0,β1) at ε = 0.2 × diameter; glued = pairs a stage brings together.")
+	fmt.Fprintln(stdout, "Betti numbers are (β0,β1) read by the ratio rule; \"?\" marks a dimension the sample cannot decide; glued = pairs a stage brings together.")
 	set := demo.Settings()
 	for i, name := range demo.Models {
 		info, err := demo.TrainingOf(name)
