@@ -358,7 +358,7 @@ func readScale(ctx context.Context, c *cloud, r readResolved) (*Reading, error) 
 		bc.Metric, bc.K = KNNGeodesic, hr.k
 	}
 	rd.Barcode = bc
-	for d, bars := range bc.Bars {
+	for _, bars := range bc.Bars {
 		var ev Evidence
 		n := 0
 		if r.Rule == RulePersistence {
@@ -413,7 +413,6 @@ func readScale(ctx context.Context, c *cloud, r readResolved) (*Reading, error) 
 		rd.Betti = append(rd.Betti, n)
 		rd.Confident = append(rd.Confident, ev.Why == "")
 		rd.Evidence = append(rd.Evidence, ev)
-		_ = d
 	}
 	return rd, nil
 }
@@ -440,13 +439,13 @@ func readRatio(ctx context.Context, c *cloud, r readResolved) (*Reading, error) 
 	if err != nil {
 		return nil, err
 	}
+	b0, ev0, conn := readComponents(t, r)
 	thrs := []float64{thr, thr}
 	if r.MaxDim >= 2 {
 		// Cycles of dimension 2 and up form only once the 1-cycles of
 		// the sample's own noise have died: read them up to ratioHigh
 		// times that scale, on the collapsed edges.
 		_, _, fill1 := readCycles(bc.Bars[1], thr, bc.Truncated, r.Alpha)
-		_, _, conn := readComponents(t, r)
 		t2 := min(thr, ratioHigh*max(fill1, conn), 0.6*enc)
 		sp, err := CollapseEdges(ctx, t, t2)
 		if err != nil {
@@ -465,7 +464,6 @@ func readRatio(ctx context.Context, c *cloud, r readResolved) (*Reading, error) 
 		}
 	}
 	rd := &Reading{Rule: RuleRatio, Barcode: bc, Scale: s}
-	b0, ev0, conn := readComponents(t, r)
 	rd.Betti = append(rd.Betti, b0)
 	rd.Confident = append(rd.Confident, ev0.Why == "")
 	rd.Evidence = append(rd.Evidence, ev0)
