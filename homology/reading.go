@@ -26,8 +26,11 @@ const (
 	// bars of that dimension. Components (H0) count when two groups of
 	// points, each connected at its own scale, join only at a multiple
 	// RatioH0 of that scale. A dimension is undetermined when a bar lies
-	// close to the significance bound, or when the sample gives no room
-	// for a cycle of that dimension to show. It is the zero value.
+	// close to the significance bound, when the sample gives no room
+	// for a cycle of that dimension to show, or when its count changes
+	// once each component is whitened along its principal axes (a linear
+	// change of coordinates, which changes the Rips filtration but not
+	// the topology). It is the zero value.
 	RuleRatio Rule = iota
 	// RuleRelative reads Betti numbers at ε = Scale × diameter.
 	RuleRelative
@@ -78,7 +81,7 @@ func (r *Rule) UnmarshalText(b []byte) error {
 func (r Rule) Describe() string {
 	switch r {
 	case RuleRatio:
-		return "bars whose death/birth ratio is significant (Bobrowski–Skraba universal null, Bonferroni at 5 %); components that join only at 2.5× their own connection scale"
+		return "bars whose death/birth ratio is significant (Bobrowski–Skraba universal null, Bonferroni at 5 %); components that join only at 2.5× their own connection scale; a count that changes when each component is rescaled along its principal axes is left undetermined"
 	case RuleRelative:
 		return "bars alive at a fixed fraction of each cloud's diameter"
 	case RulePersistence:
@@ -120,7 +123,8 @@ const (
 	ratioHigh = 3
 	// ratioRoom is the least ratio between the largest scale examined
 	// and the scale at which d-cycles can first form for a zero reading
-	// of dimension d to be confident.
+	// of dimension d to be confident (and at least the ratio a bar would
+	// need to count).
 	ratioRoom = 5
 	// ratioGray widens the Bonferroni bound: a bar whose p-value is
 	// below ratioGray × α / N but not below α / N leaves its dimension
@@ -417,12 +421,67 @@ func readScale(ctx context.Context, c *cloud, r readResolved) (*Reading, error) 
 	return rd, nil
 }
 
-// readRatio reads by RuleRatio.
+// readRatio reads by RuleRatio, then checks every dimension d ≥ 1 it
+// is confident of against the anisotropy guard: each component, whitened
+// along its principal axes (whiten), is read again, and a dimension
+// whose count there differs is left undetermined. A linear map of the
+// sample changes the Rips filtration (a stretched circle is an ellipse,
+// whose Rips complexes are 2-spheres at some scales: Adamaszek, Adams
+// and Reddy, J. Topol. Anal. 11, 2019), but not the
+// topology of the space the sample comes from; a count that a linear
+// change of coordinates overturns is not one the sample decides.
 func readRatio(ctx context.Context, c *cloud, r readResolved) (*Reading, error) {
+	rd, groups, err := ratioCore(ctx, c, r)
+	if err != nil || r.MaxDim < 1 || groups == nil {
+		return rd, err
+	}
+	sure := false
+	for d := 1; d <= r.MaxDim; d++ {
+		sure = sure || rd.Confident[d]
+	}
+	if !sure {
+		return rd, nil
+	}
+	var parts []*cloud
+	cond := 1.0
+	for _, g := range groups {
+		w, k := whiten(c, g)
+		if w == nil {
+			continue
+		}
+		parts = append(parts, w)
+		cond = max(cond, k)
+	}
+	if cond < whitenMinCond {
+		return rd, nil
+	}
+	sum := make([]int, r.MaxDim+1)
+	for _, w := range parts {
+		wr, _, err := ratioCore(ctx, w, r)
+		if err != nil {
+			return nil, err
+		}
+		for d := 1; d <= r.MaxDim; d++ {
+			sum[d] += wr.Betti[d]
+		}
+	}
+	for d := 1; d <= r.MaxDim; d++ {
+		if rd.Confident[d] && sum[d] != rd.Betti[d] {
+			rd.Confident[d] = false
+			rd.Evidence[d].Why = fmt.Sprintf("anisotropy: with each component rescaled along its principal axes (condition number %.3g) the reading of H%d is %d, not %d", cond, d, sum[d], rd.Betti[d])
+		}
+	}
+	return rd, nil
+}
+
+// ratioCore makes the reading of RuleRatio without the anisotropy
+// guard. It also returns the points of each component counted in β₀
+// (nil for a cloud whose points coincide).
+func ratioCore(ctx context.Context, c *cloud, r readResolved) (*Reading, [][]int, error) {
 	hr, _ := resolve(r.homologySettings())
 	t, err := euclidean(ctx, c)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	n := c.n
 	k := min(r.K, n-1)
@@ -430,32 +489,32 @@ func readRatio(ctx context.Context, c *cloud, r readResolved) (*Reading, error) 
 	enc, _ := enclosingRadius(t)
 	thr := min(enc, ratioTau*s)
 	if !(thr > 0) {
-		return point(r), nil
+		return point(r), nil, nil
 	}
 	hr.threshold = thr
 	low := hr
 	low.maxDim = min(hr.maxDim, 1)
 	bc, err := ripsTriangle(ctx, t, low)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
-	b0, ev0, conn := readComponents(t, r)
+	b0, ev0, conn, groups := readComponents(t, r)
 	thrs := []float64{thr, thr}
 	if r.MaxDim >= 2 {
 		// Cycles of dimension 2 and up form only once the 1-cycles of
 		// the sample's own noise have died: read them up to ratioHigh
 		// times that scale, on the collapsed edges.
-		_, _, fill1 := readCycles(bc.Bars[1], thr, bc.Truncated, r.Alpha)
+		_, _, fill1, _ := readCycles(bc.Bars[1], thr, bc.Truncated, r.Alpha)
 		t2 := min(thr, ratioHigh*max(fill1, conn), 0.6*enc)
 		sp, err := CollapseEdges(ctx, t, t2)
 		if err != nil {
-			return nil, err
+			return nil, nil, err
 		}
 		high := hr
 		high.threshold = t2
 		hb, err := ripsSparse(ctx, sp, high)
 		if err != nil {
-			return nil, err
+			return nil, nil, err
 		}
 		bc.Bars = append(bc.Bars, hb.Bars[2:]...)
 		bc.MaxDim = r.MaxDim
@@ -471,13 +530,16 @@ func readRatio(ctx context.Context, c *cloud, r readResolved) (*Reading, error) 
 	// formed and the noise among them has died.
 	fill := conn
 	for d := 1; d <= r.MaxDim; d++ {
-		nb, ev, f := readCycles(bc.Bars[d], thrs[d], thrs[d] < enc, r.Alpha)
+		nb, ev, f, need := readCycles(bc.Bars[d], thrs[d], thrs[d] < enc, r.Alpha)
 		if ev.Why == "" && n < ratioMinPoints {
 			ev.Why = fmt.Sprintf("too few points: %d, want at least %d for a confident reading of H%d", n, ratioMinPoints, d)
 		}
-		room := thrs[d] / fill
-		if ev.Why == "" && nb == 0 && room < ratioRoom {
-			ev.Why = fmt.Sprintf("no room: the largest scale examined is %.2g× the scale at which %d-cycles can form (want %v×)", room, d, ratioRoom)
+		// A zero is confident only if a class born where d-cycles can
+		// first form, at fill, and alive to the largest scale examined
+		// would have counted, with room to spare (ratioRoom).
+		room, want := thrs[d]/fill, max(need, ratioRoom)
+		if ev.Why == "" && nb == 0 && room < want {
+			ev.Why = fmt.Sprintf("no room: the largest scale examined is %.2g× the scale at which %d-cycles can form (want %.2g×)", room, d, want)
 		}
 		rd.Betti = append(rd.Betti, nb)
 		rd.Confident = append(rd.Confident, ev.Why == "")
@@ -486,21 +548,22 @@ func readRatio(ctx context.Context, c *cloud, r readResolved) (*Reading, error) 
 			fill = max(fill, f)
 		}
 	}
-	return rd, nil
+	return rd, groups, nil
 }
 
 // eulerGamma is the Euler–Mascheroni constant.
 const eulerGamma = 0.5772156649015329
 
 // readCycles reads one dimension d ≥ 1 by the ratio rule. It returns
-// the count, the evidence and the largest death among the bars left
-// out (the scale by which the noise of this dimension has died).
-func readCycles(bars []Bar, thr float64, truncated bool, alpha float64) (int, Evidence, float64) {
+// the count, the evidence, the largest death among the bars left out
+// (the scale by which the noise of this dimension has died) and the
+// least death/birth ratio one more bar would need to count.
+func readCycles(bars []Bar, thr float64, truncated bool, alpha float64) (int, Evidence, float64, float64) {
 	ev := Evidence{Lo: 0, Hi: thr, Weakest: math.NaN(), Strongest: math.NaN()}
 	n := len(bars)
 	if n == 0 {
 		ev.Bound = alpha
-		return 0, ev, 0
+		return 0, ev, 0, ratioNeed(ratioPrior, alpha)
 	}
 	ll := make([]float64, n)
 	open := make([]bool, n) // alive at the threshold
@@ -562,14 +625,23 @@ func readCycles(bars []Bar, thr float64, truncated bool, alpha float64) (int, Ev
 		ev.Lo, ev.Hi = 0, thr
 	}
 	ev.Why = gray
-	return count, ev, fill
+	mean := (sum + ratioPrior*ratioPriorWeight) / float64(n+ratioPriorWeight)
+	return count, ev, fill, ratioNeed(mean, alpha/float64(n+1))
+}
+
+// ratioNeed returns the least death/birth ratio π at which a bar passes
+// the bound under the universal null: exp(−e^ℓ) < bound with
+// ℓ = log log π − mean − γ.
+func ratioNeed(mean, bound float64) float64 {
+	return math.Exp(math.Exp(mean + eulerGamma + math.Log(-math.Log(bound))))
 }
 
 // readComponents reads β₀ by the ratio rule from the minimum spanning
-// tree of the distances. It returns the count, the evidence and the
+// tree of the distances. It returns the count, the evidence, the
 // connection scale (the longest tree edge that joins noise, the scale
-// by which the cloud's pieces are each connected).
-func readComponents(t *LowerTriangular, r readResolved) (int, Evidence, float64) {
+// by which the cloud's pieces are each connected) and the points of
+// each counted component.
+func readComponents(t *LowerTriangular, r readResolved) (int, Evidence, float64, [][]int) {
 	n := t.N
 	edges := mst(t)
 	minSize := max(5, n/25)
@@ -590,7 +662,8 @@ func readComponents(t *LowerTriangular, r readResolved) (int, Evidence, float64)
 	ev := Evidence{Lo: 0, Hi: math.Inf(1), Weakest: math.NaN(), Strongest: math.NaN(), Bound: RatioH0}
 	count := 1
 	var conn float64
-	for _, e := range edges {
+	cut := make([]bool, len(edges))
+	for ei, e := range edges {
 		a, b := find(e.a), find(e.b)
 		if size[a] < size[b] {
 			a, b = b, a
@@ -604,6 +677,7 @@ func readComponents(t *LowerTriangular, r readResolved) (int, Evidence, float64)
 		switch {
 		case big && ratio >= RatioH0:
 			count++
+			cut[ei] = true
 			ev.Lo = max(ev.Lo, f)
 			ev.Hi = min(ev.Hi, e.d)
 			if math.IsNaN(ev.Weakest) || ratio < ev.Weakest {
@@ -631,7 +705,28 @@ func readComponents(t *LowerTriangular, r readResolved) (int, Evidence, float64)
 	if count == 1 {
 		ev.Lo, ev.Hi = conn, math.Inf(1)
 	}
-	return count, ev, conn
+	// The components: the tree without its counted edges.
+	for i := range parent {
+		parent[i] = int32(i)
+	}
+	for ei, e := range edges {
+		if !cut[ei] {
+			parent[find(e.a)] = find(e.b)
+		}
+	}
+	index := make(map[int32]int, count)
+	groups := make([][]int, 0, count)
+	for i := range n {
+		root := find(int32(i))
+		g, ok := index[root]
+		if !ok {
+			g = len(groups)
+			index[root] = g
+			groups = append(groups, nil)
+		}
+		groups[g] = append(groups[g], i)
+	}
+	return count, ev, conn, groups
 }
 
 type mstEdge struct {

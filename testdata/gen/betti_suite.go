@@ -12,11 +12,15 @@
 // condition number 10) read right, how many of those are confident in
 // every dimension, and how many are confidently wrong.
 //
-//	go run testdata/gen/betti_suite.go
+//	go run testdata/gen/betti_suite.go [-v]
+//
+// With -v it also prints every wrong or undetermined reading with its
+// evidence.
 package main
 
 import (
 	"context"
+	"flag"
 	"fmt"
 	"log"
 
@@ -25,6 +29,8 @@ import (
 )
 
 func main() {
+	verbose := flag.Bool("v", false, "print every wrong or undetermined reading with its evidence")
+	flag.Parse()
 	sizes := []int{60, 150, 400, 1000}
 	type cell struct{ right, sure, wrongSure, total int }
 	cells := map[string]map[int]*cell{}
@@ -53,6 +59,12 @@ func main() {
 			if b != c.Truth(2)[d] {
 				right = false
 				ws = ws || rd.Confident[d]
+			}
+		}
+		if *verbose && (!right || !sure) {
+			fmt.Printf("%s: read %v confident %v, truth %v\n", c.Name(), rd.Betti, rd.Confident, c.Truth(2))
+			for d, e := range rd.Evidence {
+				fmt.Printf("\tH%d [%.3g, %.3g) weakest %.3g strongest %.3g bound %.3g %s\n", d, e.Lo, e.Hi, e.Weakest, e.Strongest, e.Bound, e.Why)
 			}
 		}
 		if right {
