@@ -79,6 +79,23 @@ func Judge(tr *trace.Trace) Verdict {
 	return v
 }
 
+// undetermined counts the class readings from stage from to the output
+// with some dimension marked undetermined.
+func undetermined(tr *trace.Trace, from int) int {
+	n := 0
+	for _, st := range tr.Stages[from:] {
+		for _, g := range st.Classes {
+			for _, ok := range g.BettiConfident {
+				if !ok {
+					n++
+					break
+				}
+			}
+		}
+	}
+	return n
+}
+
 func betti(b []int) string {
 	s := make([]string, len(b))
 	for i, x := range b {
@@ -109,6 +126,9 @@ func (v Verdict) String(tr *trace.Trace) string {
 		fmt.Fprintf(&b, "every class is one component with no holes from stage %d (%s)", s.Index, s.Kind)
 		if v.FirstSimple < last {
 			b.WriteString(" and at the output")
+		}
+		if n := undetermined(tr, v.FirstSimple); n > 0 {
+			fmt.Fprintf(&b, " (best readings: %d of those class readings are undetermined, marked ?)", n)
 		}
 	default:
 		s := &tr.Stages[v.FirstSimple]
