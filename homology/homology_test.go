@@ -253,6 +253,9 @@ func TestBadInput(t *testing.T) {
 		{"one point", [][]float64{{1, 2}}, nil, ErrTooFewPoints},
 		{"NaN", [][]float64{{0, 0}, {math.NaN(), 1}}, nil, ErrNonFinite},
 		{"Inf", [][]float64{{0, 0}, {1, math.Inf(-1)}}, nil, ErrNonFinite},
+		// 1e155 squared overflows float64 (largest ≈ 1.8e308, IEEE 754).
+		{"1e155", [][]float64{{0, 0}, {1e155, 0}, {2e155, 0}}, nil, ErrMagnitude},
+		{"-1e151", [][]float64{{0, 0}, {0, -1e151}}, nil, ErrMagnitude},
 		{"ragged", [][]float64{{0, 0}, {1, 2, 3}}, nil, ErrRagged},
 		{"maxdim 4", ok, &Settings{MaxDim: 4}, ErrSettings},
 		{"maxdim -1", ok, &Settings{MaxDim: -1}, ErrSettings},

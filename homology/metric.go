@@ -74,6 +74,9 @@ func (c *cloud) checkFinite() error {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
 			return fmt.Errorf("%w: %v at row %d, column %d", ErrNonFinite, v, k/c.dim, k%c.dim)
 		}
+		if math.Abs(v) > MaxCoordinate {
+			return fmt.Errorf("%w: %v at row %d, column %d is above %g, where squared distances overflow", ErrMagnitude, v, k/c.dim, k%c.dim, MaxCoordinate)
+		}
 	}
 	return nil
 }

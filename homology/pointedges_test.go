@@ -181,7 +181,8 @@ func TestPointEdgesErrors(t *testing.T) {
 		{"NaN threshold", good, &Settings{Threshold: math.NaN()}, ErrSettings},
 		{"one point", pointsMatrix([][]float64{{1, 2}}), nil, ErrTooFewPoints},
 		{"NaN coordinate", pointsMatrix([][]float64{{0, 0}, {math.NaN(), 1}}), nil, ErrNonFinite},
-		{"NaN cosine", pointsMatrix([][]float64{{1e200, 1e200}, {1e200, 0}}), &Settings{Metric: Cosine}, ErrDistances},
+		// Norms of 1e200 overflow (float64 ends near 1.8e308, IEEE 754).
+		{"huge cosine", pointsMatrix([][]float64{{1e200, 1e200}, {1e200, 0}}), &Settings{Metric: Cosine}, ErrMagnitude},
 		{"budget", good, &Settings{MaxBytes: 100}, nil},
 	} {
 		t.Run(test.name, func(t *testing.T) {

@@ -123,7 +123,16 @@ var (
 	// ErrOverflow is returned when simplex indices of the requested
 	// dimension do not fit in 55 bits for this many points.
 	ErrOverflow = errors.New("homology: simplex index overflow")
+	// ErrMagnitude is returned for a coordinate larger in magnitude
+	// than MaxCoordinate.
+	ErrMagnitude = errors.New("homology: coordinate too large")
 )
+
+// MaxCoordinate is the largest coordinate magnitude accepted. Squared
+// differences of larger values, summed over the coordinates, can
+// overflow float64 (whose largest value is about 1.8e308): a cloud of
+// such points would read as infinitely far apart.
+const MaxCoordinate = 1e150
 
 // MemoryError is returned when the estimated memory of a computation
 // exceeds the budget Settings.MaxBytes.

@@ -254,13 +254,17 @@ func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings)
 	return tr, nil
 }
 
-// checkFinite reports the first NaN or ±Inf in m.
+// checkFinite reports the first NaN or ±Inf in m, or the first value
+// above homology.MaxCoordinate in magnitude.
 func checkFinite(m *mat.Dense) error {
 	r, c := m.Dims()
 	for i := range r {
 		for j, v := range m.RawRowView(i)[:c] {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
 				return fmt.Errorf("row %d, column %d is %v", i+1, j+1, v)
+			}
+			if math.Abs(v) > homology.MaxCoordinate {
+				return fmt.Errorf("row %d, column %d is %v, above %g, where squared distances overflow", i+1, j+1, v, homology.MaxCoordinate)
 			}
 		}
 	}

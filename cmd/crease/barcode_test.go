@@ -90,6 +90,10 @@ func TestBarcodeCLIBadInput(t *testing.T) {
 		{"non-numeric", "0,0\n1,zz\n", []string{"-"}, "<stdin>:2: column 2"},
 		{"ragged", "0,0\n1,2,3\n", []string{"-"}, "<stdin>:2"},
 		{"nan", "0,0\nNaN,1\n", []string{"-"}, "<stdin>:2: column 1"},
+		// Squares of 1e155 overflow float64 (IEEE 754 ends near 1.8e308);
+		// this cloud once read as three infinite H0 bars.
+		{"overflowing squares", "0,0\n1e155,0\n2e155,0\n", []string{"-"}, "1e+155 at row 1, column 0 is above 1e+150"},
+		{"overflowing squares, collapsed", "0,0\n1e155,0\n2e155,0\n", []string{"-", "--collapse", "--threshold", "1e300"}, "above 1e+150"},
 		{"empty", "", []string{"-"}, "no data rows"},
 		{"one point", "1,2\n", []string{"-"}, "at least 2 points"},
 		{"maxdim", "0,0\n1,1\n", []string{"-", "--maxdim", "4"}, "maximal dimension 4"},

@@ -26,6 +26,11 @@ const (
 	colBlock = 1024
 )
 
+// MaxCoordinate is the largest coordinate magnitude NewCloud accepts:
+// sums of squared differences of larger values can overflow float64.
+// It equals homology.MaxCoordinate.
+const MaxCoordinate = 1e150
+
 // Graph is a k-nearest-neighbour graph. Row i of Index and Dist lists the
 // K nearest other points of point i, sorted by distance and then by index;
 // Dist holds Euclidean distances. A Graph is not modified after Search
@@ -78,7 +83,8 @@ func (c *Cloud) WithProgress(progress func(done, total int)) *Cloud {
 }
 
 // NewCloud copies the rows of x as points. It returns an [*Error] if x is
-// nil or empty or holds NaN or ±Inf (naming the first such row and column).
+// nil or empty or holds NaN, ±Inf or a value above MaxCoordinate in
+// magnitude (naming the first such row and column).
 func NewCloud(x mat.Matrix) (*Cloud, error) {
 	if x == nil {
 		return nil, &Error{Row: -1, Col: -1, Reason: "nil matrix"}
@@ -103,6 +109,9 @@ func NewCloud(x mat.Matrix) (*Cloud, error) {
 	for i, v := range c.raw {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
 			return nil, &Error{Row: i / d, Col: i % d, Reason: fmt.Sprintf("non-finite value %v", v)}
+		}
+		if math.Abs(v) > MaxCoordinate {
+			return nil, &Error{Row: i / d, Col: i % d, Reason: fmt.Sprintf("value %v is above %g, where squared distances overflow", v, MaxCoordinate)}
 		}
 	}
 	mean := make([]float64, d)
