@@ -58,7 +58,7 @@ func TestDigitsAcceptance(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	set := &trace.Settings{MaxDim: 0, OverlapK: ref.K, Seed: ref.Seed, Cap: -1}
+	set := &trace.Settings{MaxDim: trace.H0Only, OverlapK: ref.K, Seed: ref.Seed, Cap: -1}
 	tr, err := trace.RunFile(context.Background(), "../testdata/onnx/digits.onnx", s, set)
 	if err != nil {
 		t.Fatal(err)

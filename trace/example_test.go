@@ -215,3 +215,32 @@ func ExampleTrace_All() {
 	// Output:
 	// stage 3 glues 22 pairs within classes
 }
+
+// ExampleSettings shows that a partly filled Settings means the defaults
+// for every field left zero: only the named fields change.
+func ExampleSettings() {
+	f, err := os.Open("../testdata/onnx/digits_sample.csv")
+	if err != nil {
+		log.Fatal(err)
+	}
+	defer f.Close()
+	sample, err := trace.ReadCSV(f, "digits_sample.csv", &trace.CSVSettings{Label: "label"})
+	if err != nil {
+		log.Fatal(err)
+	}
+	for _, set := range []*trace.Settings{
+		{Cap: 10, SkipProbe: true},
+		{Cap: 10, SkipProbe: true, MaxDim: trace.H0Only},
+	} {
+		tr, err := trace.RunFile(context.Background(), "../testdata/onnx/digits.onnx", sample, set)
+		if err != nil {
+			log.Fatal(err)
+		}
+		s := tr.Settings
+		fmt.Printf("maxdim %d, rule %v, seed %d, glue tau %v, overlap k %d; input reads %s\n",
+			s.MaxDim, s.Rule, s.Seed, s.GlueTau, s.OverlapK, tr.Stages[0].Whole.BettiString())
+	}
+	// Output:
+	// maxdim 1, rule ratio, seed 1, glue tau 0.1, overlap k 5; input reads (1,0?)
+	// maxdim 0, rule ratio, seed 1, glue tau 0.1, overlap k 5; input reads (1)
+}

@@ -271,10 +271,14 @@ const (
 	DefaultK = homology.DefaultK
 	// DefaultHops is the hop-count scale of ScaleHops.
 	DefaultHops = homology.DefaultHops
-	// DefaultMaxDim is the highest homology dimension of
-	// DefaultSettings.
+	// DefaultMaxDim is the highest homology dimension used when
+	// Settings.MaxDim is zero.
 	DefaultMaxDim = 1
-	// DefaultSeed is the seed of DefaultSettings and of the CLI.
+	// H0Only, as Settings.MaxDim, computes H0 only (zero means
+	// DefaultMaxDim). The Trace records it as 0.
+	H0Only = -1
+	// DefaultSeed is the seed used when Settings.Seed is zero, and the
+	// CLI's.
 	DefaultSeed = 1
 	// DefaultOverlapK is the k of the k-NN agreement, overlap.DefaultK.
 	DefaultOverlapK = 5
@@ -286,12 +290,13 @@ const (
 	DefaultGlueTau = 0.1
 )
 
-// Settings control Run. A nil *Settings means DefaultSettings(). Zero
-// fields other than MaxDim and Seed mean the documented defaults; the
-// Trace records the resolved values.
+// Settings control Run. A nil *Settings means DefaultSettings(), and
+// every zero field of a partly filled Settings means its documented
+// default, so &Settings{Scale: 0.2} is the defaults with another scale.
+// The Trace records the resolved values (with MaxDim 0 for H0 only).
 type Settings struct {
-	// MaxDim is the highest homology dimension, 0..3. Zero computes H0
-	// only; DefaultSettings gives 1.
+	// MaxDim is the highest homology dimension, 1..3, or H0Only; zero
+	// means DefaultMaxDim.
 	MaxDim int `json:"maxdim"`
 	// Rule is the scale rule; the zero value is ScaleRatio.
 	Rule ScaleRule `json:"rule"`
@@ -317,7 +322,8 @@ type Settings struct {
 	// class, chosen by Sample.Cap with Seed. Zero means DefaultCap,
 	// negative means no cap.
 	Cap int `json:"cap"`
-	// Seed seeds the subsampling and every randomised measure.
+	// Seed seeds the subsampling and every randomised measure; zero
+	// means DefaultSeed.
 	Seed uint64 `json:"seed"`
 	// GlueTau is relu.GlueSettings.Tau: a pair counts as glued when its
 	// input distance exceeds GlueTau × the input's median nearest-
@@ -346,9 +352,10 @@ type Settings struct {
 	Progress func(Progress) `json:"-"`
 }
 
-// DefaultSettings returns the settings used for a nil *Settings: H0 and
-// H1 (DefaultMaxDim) read by ScaleRatio, per-class cap DefaultCap, seed
-// DefaultSeed. The CLI's defaults are these.
+// DefaultSettings returns the settings used for a nil *Settings, with
+// the defaults of its zero fields spelt out where they are not zero: H0
+// and H1 (DefaultMaxDim) read by ScaleRatio, per-class cap DefaultCap,
+// seed DefaultSeed. The CLI's defaults are these.
 func DefaultSettings() *Settings {
 	return &Settings{MaxDim: DefaultMaxDim, Seed: DefaultSeed}
 }
@@ -366,8 +373,16 @@ type Progress struct {
 
 // resolve fills defaults and checks ranges.
 func (s Settings) resolve() (Settings, error) {
-	if s.MaxDim < 0 || s.MaxDim > 3 {
-		return s, fmt.Errorf("trace: maxdim %d out of range 0..3", s.MaxDim)
+	switch {
+	case s.MaxDim == 0:
+		s.MaxDim = DefaultMaxDim
+	case s.MaxDim == H0Only:
+		s.MaxDim = 0
+	case s.MaxDim < 0 || s.MaxDim > 3:
+		return s, fmt.Errorf("trace: maxdim %d out of range 1..3 (or H0Only)", s.MaxDim)
+	}
+	if s.Seed == 0 {
+		s.Seed = DefaultSeed
 	}
 	if s.Scale == 0 {
 		s.Scale = DefaultScale

@@ -60,6 +60,12 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 		fs.Usage()
 		return fmt.Errorf("usage: want MODEL and DATA arguments, got %d", len(pos))
 	}
+	if *maxDim < 0 || *maxDim > 3 {
+		return fmt.Errorf("--maxdim %d: want 0..3", *maxDim)
+	}
+	if *maxDim == 0 {
+		*maxDim = trace.H0Only
+	}
 	set := &trace.Settings{MaxDim: *maxDim, Alpha: *alpha, Scale: *scale, Persistence: *pers, K: *k, Hops: *hops,
 		Cap: *capN, Seed: *seed, Fuse: *fuse, SkipWhole: !*whole, GlueTau: *glueTau, SkipProbe: *skipProbe, Timing: *timing}
 	switch *metric {
