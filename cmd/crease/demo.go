@@ -34,6 +34,13 @@ func runDemo(ctx context.Context, args []string, stdin io.Reader, stdout, stderr
 	if len(pos) > 0 {
 		return fmt.Errorf("usage: crease demo takes no arguments (got %q)", pos[0])
 	}
+	if *dir != "" {
+		for _, name := range demo.Models {
+			if err := prepareOutput(filepath.Join(*dir, name+".json")); err != nil {
+				return err
+			}
+		}
+	}
 	fmt.Fprintln(stdout, "crease demo: a planar two-joint arm; configurations (cos θ1, sin θ1, cos θ2, sin θ2) on the torus of joint angles,")
 	fmt.Fprintln(stdout, "classed clear / near / contact by the clearance to a disc obstacle; 300 points per class.")
 	fmt.Fprintln(stdout, "Betti numbers are (β0,β1) read by the ratio rule; \"?\" marks a dimension the sample cannot decide; glued = pairs a stage brings together.")

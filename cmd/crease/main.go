@@ -9,10 +9,11 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
 	"os/signal"
+	"path/filepath"
 	"sort"
-	"strings"
 )
 
 // command is one subcommand of crease. Each subcommand lives in its own
@@ -120,17 +121,44 @@ func openInput(name string, stdin io.Reader) (io.Reader, func() error, string, e
 	return f, f.Close, name, nil
 }
 
+// prepareOutput makes sure path can be written before any work starts:
+// it creates the missing parent folders and checks that a file can be
+// made beside path, so a run does not compute for minutes and then fail
+// on its output. It leaves nothing behind but the folders.
+func prepareOutput(path string) error {
+	if fi, err := os.Stat(path); err == nil && fi.IsDir() {
+		return fmt.Errorf("%s: is a directory, want a file name", path)
+	}
+	dir := filepath.Dir(path)
+	if err := os.MkdirAll(dir, 0o777); err != nil {
+		return fmt.Errorf("%s: cannot create its folder: %v", path, pathErr(err))
+	}
+	f, err := os.CreateTemp(dir, ".crease-*.tmp")
+	if err != nil {
+		return fmt.Errorf("%s: cannot write in %s: %v", path, dir, pathErr(err))
+	}
+	f.Close()
+	return os.Remove(f.Name())
+}
+
+// pathErr returns the reason of a *fs.PathError without its path (which
+// may name a temporary file the user never asked for).
+func pathErr(err error) error {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	return err
+}
+
 // writeFileAtomic writes data to path through a temporary file in the
 // same directory and renames it into place, so a reader never sees a
 // partial file.
 func writeFileAtomic(path string, write func(io.Writer) error) (err error) {
-	dir := "."
-	if i := strings.LastIndexByte(path, '/'); i >= 0 {
-		dir = path[:i+1]
-	}
+	dir := filepath.Dir(path)
 	f, err := os.CreateTemp(dir, ".crease-*.tmp")
 	if err != nil {
-		return err
+		return fmt.Errorf("cannot write in %s: %v", dir, pathErr(err))
 	}
 	tmp := f.Name()
 	defer func() {

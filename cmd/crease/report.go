@@ -33,6 +33,11 @@ func runReport(ctx context.Context, args []string, stdin io.Reader, stdout, stde
 		fs.Usage()
 		return fmt.Errorf("usage: want one trace file, got %d arguments", len(pos))
 	}
+	if *out != "" {
+		if err := prepareOutput(*out); err != nil {
+			return err
+		}
+	}
 	r, closer, name, err := openInput(pos[0], stdin)
 	if err != nil {
 		return err

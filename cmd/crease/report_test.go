@@ -17,7 +17,8 @@ import (
 // one of the traces it wrote, and checks the report file and the
 // errors of bad input (exit status 2, no output file left behind).
 func TestDemoAndReport(t *testing.T) {
-	dir := t.TempDir()
+	// A folder that does not exist yet: --dir creates it.
+	dir := filepath.Join(t.TempDir(), "new", "demo")
 	var out, errb bytes.Buffer
 	if code := creaseMain(context.Background(), []string{"demo", "--dir", dir}, nil, &out, &errb); code != 0 {
 		t.Fatalf("crease demo: exit %d: %s", code, errb.String())
@@ -27,7 +28,7 @@ func TestDemoAndReport(t *testing.T) {
 			t.Errorf("crease demo output lacks %q", s)
 		}
 	}
-	report := filepath.Join(dir, "report.html")
+	report := filepath.Join(dir, "pages", "report.html")
 	errb.Reset()
 	if code := creaseMain(context.Background(), []string{"report", filepath.Join(dir, "arm_wide.json"), "--out", report}, nil, &out, &errb); code != 0 {
 		t.Fatalf("crease report: exit %d: %s", code, errb.String())

@@ -66,6 +66,13 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 	if *maxDim == 0 {
 		*maxDim = trace.H0Only
 	}
+	for _, p := range []string{*out, *csvOut} {
+		if p != "" {
+			if err := prepareOutput(p); err != nil {
+				return err
+			}
+		}
+	}
 	set := &trace.Settings{MaxDim: *maxDim, Alpha: *alpha, Scale: *scale, Persistence: *pers, K: *k, Hops: *hops,
 		Cap: *capN, Seed: *seed, Fuse: *fuse, SkipWhole: !*whole, GlueTau: *glueTau, SkipProbe: *skipProbe, Timing: *timing}
 	switch *metric {

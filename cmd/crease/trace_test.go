@@ -242,3 +242,43 @@ func TestTraceCommandNPY(t *testing.T) {
 		t.Errorf("CSV and NPY tables differ:\n%s\n%s", tables[0], tables[1])
 	}
 }
+
+// TestTraceOutputPaths checks that --out and --csv create missing
+// folders, and that a path that cannot be written is refused before any
+// work starts (nothing on stdout, exit 2).
+func TestTraceOutputPaths(t *testing.T) {
+	dir := t.TempDir()
+	file := filepath.Join(dir, "plain")
+	os.WriteFile(file, []byte("x"), 0o644)
+	for _, tc := range []struct {
+		name string
+		flag string
+		path string
+		want string // empty: success
+	}{
+		{"out in a missing folder", "--out", filepath.Join(dir, "a", "b", "t.json"), ""},
+		{"csv in a missing folder", "--csv", filepath.Join(dir, "c", "t.csv"), ""},
+		{"out under a file", "--out", filepath.Join(file, "t.json"), "cannot create its folder"},
+		{"out is a folder", "--out", dir, "is a directory"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			var stdout, stderr bytes.Buffer
+			code := creaseMain(context.Background(), []string{"trace", digitsModel, digitsSample, "--per-class-cap", "10", "--skip-probe", tc.flag, tc.path}, nil, &stdout, &stderr)
+			if tc.want == "" {
+				if code != 0 {
+					t.Fatalf("exit %d: %s", code, stderr.String())
+				}
+				if fi, err := os.Stat(tc.path); err != nil || fi.Size() == 0 {
+					t.Errorf("%s not written: %v", tc.path, err)
+				}
+				return
+			}
+			if code != 2 || stdout.Len() > 0 {
+				t.Errorf("exit %d with %d bytes of output, want 2 before any work", code, stdout.Len())
+			}
+			if !strings.Contains(stderr.String(), tc.want) || !strings.Contains(stderr.String(), tc.path) {
+				t.Errorf("stderr %q lacks %q and the path", stderr.String(), tc.want)
+			}
+		})
+	}
+}
