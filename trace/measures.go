@@ -20,7 +20,7 @@ import (
 // in overlap measures.
 // For the input stage in and ms are nil and only overlap measures are
 // computed.
-func stageMeasures(ctx context.Context, st *Stage, in, out *mat.Dense, ms *onnxload.Stage, labels []int, rs Settings) (drelu, doverlap time.Duration, err error) {
+func stageMeasures(ctx context.Context, st *Stage, in, out *mat.Dense, ms *onnxload.Stage, labels, units []int, rs Settings) (drelu, doverlap time.Duration, err error) {
 	m := map[string]float64{}
 	cm := make([]map[string]float64, len(st.Classes))
 	put := func(name string, v float64) {
@@ -42,7 +42,7 @@ func stageMeasures(ctx context.Context, st *Stage, in, out *mat.Dense, ms *onnxl
 		}
 	}()
 	t := time.Now()
-	err = overlapMeasures(ctx, st, out, labels, rs, func(_ int, name string, v float64) { put(name, v) },
+	err = overlapMeasures(ctx, st, out, labels, units, rs, func(_ int, name string, v float64) { put(name, v) },
 		func(c int, name string, v float64) {
 			if c < 0 || c >= len(cm) || math.IsNaN(v) || math.IsInf(v, 0) {
 				return

@@ -15,12 +15,19 @@ import (
 // overlapMeasures runs overlap.Measure on one stage's output and puts
 // the stage-level values into stage and the per-class values into the
 // class groups (see the README schema for the names).
-func overlapMeasures(ctx context.Context, st *Stage, out *mat.Dense, labels []int, rs Settings, stage, class func(c int, name string, v float64)) error {
+//
+// The Voronoi test runs on softmax stages when units matches the classes
+// to the output units (units[c] is class c's); the columns are put in
+// class order first.
+func overlapMeasures(ctx context.Context, st *Stage, out *mat.Dense, labels []int, units []int, rs Settings, stage, class func(c int, name string, v float64)) error {
 	set := &overlap.Settings{
 		K:         rs.OverlapK,
 		SkipProbe: rs.SkipProbe,
 		Probe:     overlap.ProbeSettings{Seed: rs.Seed},
-		Softmax:   st.Kind == "softmax",
+		Softmax:   st.Kind == "softmax" && units != nil,
+	}
+	if set.Softmax {
+		out = unitColumns(out, units)
 	}
 	r, err := overlap.Measure(ctx, out, labels, set)
 	if err != nil {

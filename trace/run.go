@@ -105,13 +105,22 @@ func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings)
 		}
 	}
 
+	var um *UnitMap
+	var units []int
+	if len(acts) > 0 {
+		if um, err = matchUnits(s.Classes, s.Labels, acts[len(acts)-1], rs.ClassOrder); err != nil {
+			return nil, err
+		}
+		units = um.Units
+	}
+
 	tr := &Trace{
 		Schema:   SchemaVersion,
 		Tool:     "crease " + Version,
 		Settings: rs,
 		Sample: SampleInfo{
 			Source: s.Source, Rows: s.SourceRows, Width: width,
-			Classes: s.Classes, Indices: s.Rows, Labels: s.Labels,
+			Classes: s.Classes, Indices: s.Rows, Labels: s.Labels, Units: um,
 		},
 		Stages: make([]Stage, len(clouds)),
 	}
@@ -186,9 +195,9 @@ func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings)
 				case tk.measures:
 					part = "measures"
 					if tk.stage == 0 {
-						dr, do, err = stageMeasures(ctx, st, nil, clouds[0], nil, s.Labels, rs)
+						dr, do, err = stageMeasures(ctx, st, nil, clouds[0], nil, s.Labels, units, rs)
 					} else {
-						dr, do, err = stageMeasures(ctx, st, clouds[tk.stage-1], clouds[tk.stage], &stages[tk.stage-1], s.Labels, rs)
+						dr, do, err = stageMeasures(ctx, st, clouds[tk.stage-1], clouds[tk.stage], &stages[tk.stage-1], s.Labels, units, rs)
 					}
 				case tk.group < 0:
 					part = "whole"

@@ -69,6 +69,9 @@ type SampleInfo struct {
 	Indices []int `json:"indices"`
 	// Labels holds the class index of each row used, parallel to Indices.
 	Labels []int `json:"labels"`
+	// Units matches the classes to the model's output units; nil for a
+	// trace of the input alone.
+	Units *UnitMap `json:"units,omitempty"`
 }
 
 // Stage is the record of one stage: its identity, the topology of the
@@ -333,6 +336,12 @@ type Settings struct {
 	// OverlapK is the neighbour count of the k-NN agreement; zero means
 	// DefaultOverlapK.
 	OverlapK int `json:"overlap_k"`
+	// ClassOrder, if not empty, names the classes in the order of the
+	// model's output units (unit u is class ClassOrder[u]). Without it,
+	// integer labels in 0..outputs−1 name their units and other labels
+	// are matched to the units that agree most with the model's
+	// predictions (Trace.Sample.Units records the match).
+	ClassOrder []string `json:"class_order,omitempty"`
 	// SkipProbe leaves out the linear probe, the slowest overlap
 	// measure. The probe's folds come from overlap.Folds with Seed.
 	SkipProbe bool `json:"skip_probe"`

@@ -44,6 +44,7 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 	k := fs.Int("k", trace.DefaultK, "hops rule: neighbours in the k-NN graph; ratio rule: neighbours of the sampling scale")
 	hops := fs.Int("hops", trace.DefaultHops, "hops rule: read Betti numbers at this hop count")
 	glueTau := fs.Float64("glue-tau", trace.DefaultGlueTau, "a pair is glued when its input distance exceeds this × the input's median nearest-neighbour distance and its output distance is at most this × the output's")
+	classOrder := fs.String("class-order", "", "the class names in the order of the model's output units, comma-separated (default: integer labels name their units; other labels are matched to the units that agree most with the model's predictions)")
 	skipProbe := fs.Bool("skip-probe", false, "leave out the linear probe (the slowest measure)")
 	capN := fs.Int("per-class-cap", trace.DefaultCap, "at most this many points per class (seeded stratified subsample); negative means all")
 	seed := fs.Uint64("seed", trace.DefaultSeed, "seed of the subsample")
@@ -75,6 +76,9 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 	}
 	set := &trace.Settings{MaxDim: *maxDim, Alpha: *alpha, Scale: *scale, Persistence: *pers, K: *k, Hops: *hops,
 		Cap: *capN, Seed: *seed, Fuse: *fuse, SkipWhole: !*whole, GlueTau: *glueTau, SkipProbe: *skipProbe, Timing: *timing}
+	if *classOrder != "" {
+		set.ClassOrder = strings.Split(*classOrder, ",")
+	}
 	switch *metric {
 	case "euclidean":
 	case "knn":
@@ -109,6 +113,13 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 		return err
 	}
 	fmt.Fprintf(stdout, "# %s: %d of %d rows, %d classes; %s\n", pos[0], len(tr.Sample.Indices), tr.Sample.Rows, len(tr.Sample.Classes), ruleText(tr.Settings))
+	if um := tr.Sample.Units; um != nil {
+		line := unitsText(tr.Sample.Classes, um)
+		fmt.Fprintln(stdout, "# "+line)
+		if um.Note != "" {
+			fmt.Fprintln(stderr, "crease trace: warning: "+um.Note)
+		}
+	}
 	if err := tr.WriteTable(stdout); err != nil {
 		return err
 	}
@@ -126,6 +137,19 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 }
 
 // ruleText describes the scale rule of resolved settings.
+// unitsText says which output unit each class is and how that was
+// decided.
+func unitsText(classes []string, um *trace.UnitMap) string {
+	if um.Units == nil {
+		return "classes and output units: " + um.Note
+	}
+	parts := make([]string, len(classes))
+	for c, name := range classes {
+		parts[c] = fmt.Sprintf("%s→%d", name, um.Units[c])
+	}
+	return fmt.Sprintf("classes → output units: %s (%s; the model predicts %.1f %% of the rows as their class's unit)", strings.Join(parts, ", "), um.Source, 100*um.Agreement)
+}
+
 func ruleText(s trace.Settings) string {
 	return fmt.Sprintf("%s; H0–H%d, seed %d", s.RuleText(), s.MaxDim, s.Seed)
 }

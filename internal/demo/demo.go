@@ -82,8 +82,9 @@ func Stages(name string) ([]onnxload.Stage, error) {
 }
 
 // Run traces the embedded model name over the demo sample with set (nil
-// means trace.DefaultSettings) and records the model's embedded file
-// name and SHA-256 in the trace.
+// means trace.DefaultSettings), the classes matched to the output units
+// in the generator's order (Info.Classes) unless set gives an order, and
+// records the model's embedded file name and SHA-256 in the trace.
 func Run(ctx context.Context, name string, set *trace.Settings) (*trace.Trace, error) {
 	data, err := Model(name)
 	if err != nil {
@@ -96,6 +97,20 @@ func Run(ctx context.Context, name string, set *trace.Settings) (*trace.Trace, e
 	s, err := Sample()
 	if err != nil {
 		return nil, err
+	}
+	if set == nil || len(set.ClassOrder) == 0 {
+		// The generator's class order is the models' output order.
+		meta, err := Meta()
+		if err != nil {
+			return nil, err
+		}
+		given := trace.DefaultSettings()
+		if set != nil {
+			c := *set
+			given = &c
+		}
+		given.ClassOrder = meta.Classes
+		set = given
 	}
 	tr, err := trace.Run(ctx, stages, s, set)
 	if tr != nil {
