@@ -26,7 +26,7 @@ func init() {
 
 func runForward(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	fs := newFlagSet("forward", "[--stage K] [--fuse] MODEL.onnx INPUT.csv", stderr)
-	stage := fs.Int("stage", -1, "index of the stage whose output to print, as listed by 'crease stages'; negative counts from the end (-1 is the last)")
+	stage := fs.Int("stage", -1, "stage whose output to print, numbered as by 'crease stages' and 'crease trace' (0 is the input, 1 the first stage); negative counts from the end (-1 is the last)")
 	fuse := fs.Bool("fuse", false, "fuse consecutive affine stages, so K counts layers")
 	pos, err := parseFlags(fs, args)
 	if err != nil {
@@ -40,12 +40,14 @@ func runForward(ctx context.Context, args []string, stdin io.Reader, stdout, std
 	if err != nil {
 		return err
 	}
+	// Stage 0 is the input and stage k ≥ 1 the output of model stage
+	// k−1, as in crease stages and crease trace.
 	k := *stage
 	if k < 0 {
-		k += len(stages)
+		k += len(stages) + 1
 	}
-	if k < 0 || k >= len(stages) {
-		return fmt.Errorf("--stage %d is out of range: %s has %d stages (0 to %d)", *stage, pos[0], len(stages), len(stages)-1)
+	if k < 0 || k > len(stages) {
+		return fmt.Errorf("--stage %d is out of range: %s has stages 0 (the input) to %d", *stage, pos[0], len(stages))
 	}
 	x, name, err := readPoints(pos[1], stdin)
 	if err != nil {
@@ -54,11 +56,14 @@ func runForward(ctx context.Context, args []string, stdin io.Reader, stdout, std
 	if _, width := x.Dims(); width != stages[0].In {
 		return fmt.Errorf("%s has %d columns but %s takes inputs of width %d", name, width, pos[0], stages[0].In)
 	}
-	outs, err := onnxload.Forward(ctx, stages[:k+1], x, nil)
+	if k == 0 {
+		return writeForwardCSV(stdout, x)
+	}
+	outs, err := onnxload.Forward(ctx, stages[:k], x, nil)
 	if err != nil {
 		return err
 	}
-	return writeForwardCSV(stdout, outs[k])
+	return writeForwardCSV(stdout, outs[k-1])
 }
 
 // writeForwardCSV prints m one row per line with %.17g, which round-trips.

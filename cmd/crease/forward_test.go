@@ -33,7 +33,7 @@ func TestForwardMatchesTorch(t *testing.T) {
 		ref := readOnnxReference(t, name)
 		for k, s := range ref.Stages {
 			var out, errb bytes.Buffer
-			code := creaseMain(t.Context(), []string{"forward", onnxFixtures + name + ".onnx", "-", "--stage", strconv.Itoa(k)},
+			code := creaseMain(t.Context(), []string{"forward", onnxFixtures + name + ".onnx", "-", "--stage", strconv.Itoa(k + 1)},
 				strings.NewReader(onnxCSV(ref.Input)), &out, &errb)
 			if code != 0 {
 				t.Fatalf("%s stage %d: exit %d: %s", name, k, code, errb.String())

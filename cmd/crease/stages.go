@@ -12,6 +12,7 @@ import (
 	"text/tabwriter"
 
 	"crease.dev/crease/onnxload"
+	"crease.dev/crease/trace"
 )
 
 func init() {
@@ -70,12 +71,16 @@ func runStages(ctx context.Context, args []string, stdin io.Reader, stdout, stde
 	fmt.Fprintf(stdout, "input %s: %s (%s)\n", in.Name, in.Elem, strings.Join(dims, ", "))
 	tw := tabwriter.NewWriter(stdout, 0, 4, 2, ' ', 0)
 	fmt.Fprintln(tw, "#\tkind\tin→out\tname\tnodes")
+	// Stage 0 is the input, as in crease trace and forward --stage.
+	if len(stages) > 0 {
+		fmt.Fprintf(tw, "0\t%s\t-→%d\t%s\t-\n", trace.InputKind, stages[0].In, in.Name)
+	}
 	for i, s := range stages {
 		kind := s.Kind.String()
 		if s.Kind == onnxload.LeakyReLU || s.Kind == onnxload.ELU {
 			kind += fmt.Sprintf("(%g)", s.Alpha)
 		}
-		fmt.Fprintf(tw, "%d\t%s\t%d→%d\t%s\t%s\n", i, kind, s.In, s.Out, s.Name, strings.Join(s.Nodes, " "))
+		fmt.Fprintf(tw, "%d\t%s\t%d→%d\t%s\t%s\n", i+1, kind, s.In, s.Out, s.Name, strings.Join(s.Nodes, " "))
 	}
 	return tw.Flush()
 }

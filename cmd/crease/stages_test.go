@@ -49,17 +49,21 @@ func TestStagesTable(t *testing.T) {
 				t.Fatalf("exit %d: %s", code, errb.String())
 			}
 			lines := strings.Split(strings.TrimSpace(out.String()), "\n")
-			// Two header lines, the column header, then one line per stage.
-			if len(lines) != 3+len(ref.Stages) {
+			// Two header lines, the column header, the input (stage 0),
+			// then one line per stage.
+			if f := strings.Fields(lines[3]); f[0] != "0" || f[1] != "input" {
+				t.Errorf("line %q: want stage 0, the input", lines[3])
+			}
+			if len(lines) != 4+len(ref.Stages) {
 				t.Fatalf("%d lines, want %d stages:\n%s", len(lines), len(ref.Stages), out.String())
 			}
 			for k, s := range ref.Stages {
-				f := strings.Fields(lines[3+k])
-				if f[0] != strconv.Itoa(k) || f[3] != s.Module {
-					t.Errorf("line %q: want stage %d named %q (the PyTorch module)", lines[3+k], k, s.Module)
+				f := strings.Fields(lines[4+k])
+				if f[0] != strconv.Itoa(k+1) || f[3] != s.Module {
+					t.Errorf("line %q: want stage %d named %q (the PyTorch module)", lines[4+k], k+1, s.Module)
 				}
 				if w := len(s.Output[0]); !strings.HasSuffix(f[2], "→"+strconv.Itoa(w)) {
-					t.Errorf("line %q: want output width %d", lines[3+k], w)
+					t.Errorf("line %q: want output width %d", lines[4+k], w)
 				}
 			}
 		})
