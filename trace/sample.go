@@ -11,14 +11,14 @@ import (
 	"io"
 	"math"
 	"math/rand/v2"
-	"reflect"
 	"slices"
 	"sort"
 	"strconv"
 	"strings"
 
-	"codeberg.org/sbinet/npyio"
 	"gonum.org/v1/gonum/mat"
+
+	"crease.dev/crease/internal/npy"
 )
 
 // MinClassPoints is the fewest points a class may have.
@@ -305,67 +305,47 @@ func ReadCSV(r io.Reader, name string, set *CSVSettings) (*Sample, error) {
 	return s, nil
 }
 
-// ReadNPY reads a sample from two NPY streams: features, a 2-D array of
-// floats or integers (n × width), and labels, a 1-D integer array of
-// length n. The names are used in errors.
+// ReadNPY reads a sample from two NPY streams: features, a 2-D array
+// (n × width) of any numeric dtype numpy writes (float16/32/64,
+// int8..64, uint8..64, bool), and labels, a 1-D array of length n of
+// integers, bools or strings; either byte order, C or Fortran order
+// (internal/npy). The names are used in errors.
 func ReadNPY(features io.Reader, featuresName string, labels io.Reader, labelsName string) (*Sample, error) {
-	var x mat.Dense
-	if err := npyio.Read(features, &x); err != nil {
+	fa, err := npy.Read(features)
+	if err != nil {
 		return nil, fmt.Errorf("%s: cannot read NPY features: %v", featuresName, err)
 	}
-	lr, err := npyio.NewReader(labels)
+	if len(fa.Shape) != 2 || fa.Numbers == nil {
+		return nil, fmt.Errorf("%s: features are %s of shape %v, want a 2-D numeric array", featuresName, fa.Descr, fa.Shape)
+	}
+	if fa.Shape[0] == 0 || fa.Shape[1] == 0 {
+		return nil, fmt.Errorf("%s: features of shape %v are empty", featuresName, fa.Shape)
+	}
+	la, err := npy.Read(labels)
 	if err != nil {
 		return nil, fmt.Errorf("%s: cannot read NPY labels: %v", labelsName, err)
 	}
-	if len(lr.Header.Descr.Shape) != 1 {
-		return nil, fmt.Errorf("%s: labels have shape %v, want one dimension", labelsName, lr.Header.Descr.Shape)
+	if len(la.Shape) != 1 {
+		return nil, fmt.Errorf("%s: labels have shape %v, want one dimension", labelsName, la.Shape)
 	}
-	ints, err := readIntLabels(lr)
-	if err != nil {
-		return nil, fmt.Errorf("%s: cannot read NPY labels (want an integer array): %v", labelsName, err)
+	if la.Shape[0] != fa.Shape[0] {
+		return nil, fmt.Errorf("%s has %d labels but %s has %d rows", labelsName, la.Shape[0], featuresName, fa.Shape[0])
 	}
-	s, err := NewSampleInts(&x, ints)
+	names := la.Strings
+	if names == nil {
+		if la.Kind == 'f' {
+			return nil, fmt.Errorf("%s: labels are %s, want integers, bools or strings", labelsName, la.Descr)
+		}
+		names = make([]string, len(la.Numbers))
+		for i, v := range la.Numbers {
+			names[i] = strconv.FormatFloat(v, 'f', -1, 64)
+		}
+	}
+	x := mat.NewDense(fa.Shape[0], fa.Shape[1], fa.Numbers)
+	s, err := NewSample(x, names)
 	if err != nil {
 		return nil, fmt.Errorf("%s, %s: %w", featuresName, labelsName, err)
 	}
 	s.Source = featuresName
 	return s, nil
-}
-
-// readIntLabels reads a 1-D integer array of any integer dtype.
-func readIntLabels(r *npyio.Reader) ([]int, error) {
-	t := npyio.TypeFrom(r.Header.Descr.Type)
-	if t == nil {
-		return nil, fmt.Errorf("unsupported dtype %q", r.Header.Descr.Type)
-	}
-	switch t.Kind() {
-	case reflect.Int64:
-		return readInts[int64](r)
-	case reflect.Int32:
-		return readInts[int32](r)
-	case reflect.Int16:
-		return readInts[int16](r)
-	case reflect.Int8:
-		return readInts[int8](r)
-	case reflect.Uint8:
-		return readInts[uint8](r)
-	case reflect.Uint16:
-		return readInts[uint16](r)
-	case reflect.Uint32:
-		return readInts[uint32](r)
-	}
-	return nil, fmt.Errorf("dtype %q is not an integer type", r.Header.Descr.Type)
-}
-
-// readInts reads a slice of T and converts it to int.
-func readInts[T int64 | int32 | int16 | int8 | uint8 | uint16 | uint32](r *npyio.Reader) ([]int, error) {
-	var v []T
-	if err := r.Read(&v); err != nil {
-		return nil, err
-	}
-	out := make([]int, len(v))
-	for i, x := range v {
-		out[i] = int(x)
-	}
-	return out, nil
 }

@@ -146,3 +146,41 @@ func TestCap(t *testing.T) {
 		t.Error("a cap above every class should keep the sample")
 	}
 }
+
+// TestReadNPYNumpyTypes reads a sample numpy 1.24 wrote in its usual
+// types (testdata/gen/npy_fixtures.py): float32 features with int64,
+// string and bool labels.
+func TestReadNPYNumpyTypes(t *testing.T) {
+	open := func(name string) *os.File {
+		f, err := os.Open("../testdata/npy/" + name + ".npy")
+		if err != nil {
+			t.Fatal(err)
+		}
+		t.Cleanup(func() { f.Close() })
+		return f
+	}
+	for _, tc := range []struct {
+		labels  string
+		classes []string
+	}{
+		{"sample_y_i8", []string{"0", "1"}},
+		{"sample_y_U", []string{"inner", "outer"}},
+		{"sample_y_b", []string{"0", "1"}},
+	} {
+		s, err := trace.ReadNPY(open("sample_x_f4"), "x.npy", open(tc.labels), "y.npy")
+		if err != nil {
+			t.Fatalf("%s: %v", tc.labels, err)
+		}
+		if diff := cmp.Diff(tc.classes, s.Classes); diff != "" {
+			t.Errorf("%s: classes (-want +got):\n%s", tc.labels, diff)
+		}
+		// float32 of k/8 is exact.
+		if r, c := s.X.Dims(); r != 6 || c != 3 || s.X.At(5, 2) != 17.0/8 {
+			t.Errorf("%s: features %d×%d, last %v", tc.labels, r, c, s.X.At(5, 2))
+		}
+	}
+	_, err := trace.ReadNPY(open("sample_x_f4"), "x.npy", open("labels_i8"), "y.npy")
+	if err == nil || !strings.Contains(err.Error(), "4 labels but x.npy has 6 rows") {
+		t.Errorf("got %v, want a count mismatch naming both files", err)
+	}
+}
