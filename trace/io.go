@@ -5,7 +5,7 @@
 package trace
 
 import (
-	"bufio"
+	"bytes"
 	"encoding/csv"
 	"encoding/json"
 	"fmt"
@@ -28,17 +28,27 @@ func (t *Trace) WriteJSON(w io.Writer) error {
 }
 
 // ReadJSON reads a trace written by WriteJSON. It rejects an unknown
-// schema version, unknown fields and a stage list that breaks the
-// layout (input first, indices in order, classes matching the sample).
+// schema version, unknown fields, a stage list that breaks the layout
+// (input first, indices in order, classes matching the sample), counts
+// out of range or disagreeing lengths, and traces beyond MaxJSONBytes,
+// MaxStages, MaxClasses or MaxTraceBars; decoding errors give the line
+// and column.
 func ReadJSON(r io.Reader) (*Trace, error) {
-	dec := json.NewDecoder(bufio.NewReader(r))
+	data, err := readJSONBytes(r)
+	if err != nil {
+		return nil, err
+	}
+	dec := json.NewDecoder(bytes.NewReader(data))
 	dec.DisallowUnknownFields()
 	var t Trace
 	if err := dec.Decode(&t); err != nil {
-		return nil, fmt.Errorf("trace: %w", err)
+		return nil, jsonError(data, err)
 	}
 	if t.Schema != SchemaVersion {
 		return nil, fmt.Errorf("trace: schema version %d, this build reads %d", t.Schema, SchemaVersion)
+	}
+	if err := t.validate(); err != nil {
+		return nil, err
 	}
 	for i := range t.Stages {
 		s := &t.Stages[i]

@@ -1,0 +1,81 @@
+// Copyright ©2026 The crease Authors. All rights reserved.
+// Use of this source code is governed by a BSD-style
+// license that can be found in the LICENSE file.
+
+package trace_test
+
+import (
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"strings"
+	"testing"
+
+	"crease.dev/crease/trace"
+)
+
+// TestReadJSONHostile edits a real trace into each kind of hostile
+// trace that once passed ReadJSON (a negative glued count panicked the
+// report; Betti numbers of −2^63 passed compare; a maxdim of 100000
+// made a 404 MB report) and checks the refusal names the place.
+func TestReadJSONHostile(t *testing.T) {
+	var buf bytes.Buffer
+	if err := circleTrace(t).WriteJSON(&buf); err != nil {
+		t.Fatal(err)
+	}
+	good := buf.String()
+	if _, err := trace.ReadJSON(strings.NewReader(good)); err != nil {
+		t.Fatalf("the trace itself: %v", err)
+	}
+	// Edits that rewrite one field of the decoded trace.
+	stage0 := func(m map[string]any) map[string]any { return m["stages"].([]any)[0].(map[string]any) }
+	whole := func(m map[string]any) map[string]any { return stage0(m)["whole"].(map[string]any) }
+	for _, tc := range []struct {
+		name string
+		edit func(m map[string]any)
+		want string
+	}{
+		{"negative glued", func(m map[string]any) {
+			m["stages"].([]any)[1].(map[string]any)["glued"].(map[string]any)["within"] = -5
+		}, "do not add up"},
+		{"negative betti", func(m map[string]any) { whole(m)["betti"].([]any)[0] = -9223372036854775808 }, "betti[0] = -9223372036854775808 is negative"},
+		{"maxdim", func(m map[string]any) { m["settings"].(map[string]any)["maxdim"] = 100000 }, "maxdim 100000"},
+		{"bad bar", func(m map[string]any) { whole(m)["bars"].([]any)[0].([]any)[0] = []any{3, 1} }, "is not a bar"},
+		{"label out of range", func(m map[string]any) { m["sample"].(map[string]any)["labels"].([]any)[0] = 7 }, "sample.labels[0] = 7"},
+		{"negative count", func(m map[string]any) { whole(m)["count"] = -1 }, "count -1"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			var m map[string]any
+			if err := json.Unmarshal([]byte(good), &m); err != nil {
+				t.Fatal(err)
+			}
+			tc.edit(m)
+			bad, err := json.Marshal(m)
+			if err != nil {
+				t.Fatal(err)
+			}
+			_, err = trace.ReadJSON(bytes.NewReader(bad))
+			if err == nil || !strings.Contains(err.Error(), tc.want) {
+				t.Errorf("err = %v, want it to mention %q", err, tc.want)
+			}
+		})
+	}
+	for _, tc := range []struct {
+		name, old, new, want string
+	}{
+		{"syntax", `"stages": [`, `"stages": [}`, "line "},
+		{"type", `"maxdim": 1`, `"maxdim": "one"`, ""},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			bad := strings.Replace(good, tc.old, tc.new, 1)
+			if tc.want == "" {
+				// The line that holds the edit.
+				tc.want = fmt.Sprintf("line %d, column ", 1+strings.Count(bad[:strings.Index(bad, tc.new)], "\n"))
+			}
+			_, err := trace.ReadJSON(strings.NewReader(bad))
+			if err == nil || !strings.Contains(err.Error(), tc.want) {
+				t.Errorf("err = %v, want it to mention %q", err, tc.want)
+			}
+		})
+	}
+}
