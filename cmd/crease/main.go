@@ -14,6 +14,7 @@ import (
 	"os/signal"
 	"path/filepath"
 	"sort"
+	"syscall"
 )
 
 // command is one subcommand of crease. Each subcommand lives in its own
@@ -45,15 +46,37 @@ func checkFailed(format string, args ...any) error {
 }
 
 func main() {
-	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
+	// SIGTERM stops a run like SIGINT: the work is cancelled, temporary
+	// files are removed and crease exits with status 130.
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	newFileMode() // read the umask before any goroutine creates a file
 	code := creaseMain(ctx, os.Args[1:], os.Stdin, os.Stdout, os.Stderr)
 	stop()
 	os.Exit(code)
 }
 
-// creaseMain runs crease with args and returns the exit status:
-// 0 on success, 1 when a requested check fails, 2 on bad input or usage.
-func creaseMain(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+// Exit statuses of crease.
+const (
+	exitOK          = 0   // success
+	exitCheckFailed = 1   // a check the user asked for failed
+	exitBadInput    = 2   // bad input or usage
+	exitInternal    = 3   // an internal error (a recovered panic)
+	exitInterrupted = 130 // SIGINT or SIGTERM (128 + SIGINT's number, the shells' custom)
+)
+
+// creaseMain runs crease with args and returns the exit status (see
+// the exit constants).
+func creaseMain(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer) (code int) {
+	defer func() {
+		if r := recover(); r != nil {
+			fmt.Fprintf(stderr, "crease: internal error: %v\nThis is a bug in crease; please report it with the command line and, if you can, the input files.\n", r)
+			code = exitInternal
+		}
+	}()
+	if len(args) > 1 && args[0] == "help" {
+		// crease help CMD is crease CMD -h.
+		args = []string{args[1], "-h"}
+	}
 	if len(args) == 0 || args[0] == "-h" || args[0] == "--help" || args[0] == "help" {
 		usage(stderr)
 		if len(args) == 0 {
@@ -74,15 +97,18 @@ func creaseMain(ctx context.Context, args []string, stdin io.Reader, stdout, std
 	err := c.run(ctx, args[1:], stdin, stdout, stderr)
 	switch {
 	case err == nil:
-		return 0
+		return exitOK
 	case errors.Is(err, errHelp):
-		return 0
+		return exitOK
+	case ctx.Err() != nil && errors.Is(err, context.Canceled):
+		fmt.Fprintf(stderr, "crease %s: interrupted\n", c.name)
+		return exitInterrupted
 	case errors.Is(err, errCheckFailed):
 		fmt.Fprintf(stderr, "crease %s: %v\n", c.name, err)
-		return 1
+		return exitCheckFailed
 	default:
 		fmt.Fprintf(stderr, "crease %s: %v\n", c.name, err)
-		return 2
+		return exitBadInput
 	}
 }
 
@@ -170,7 +196,13 @@ func writeFileAtomic(path string, write func(io.Writer) error) (err error) {
 	if err = write(f); err != nil {
 		return err
 	}
-	if err = f.Chmod(0o644); err != nil {
+	// Keep the mode of the file replaced; a new file gets the mode
+	// os.Create would give it (0666 less the umask).
+	mode := newFileMode()
+	if fi, err := os.Stat(path); err == nil && fi.Mode().IsRegular() {
+		mode = fi.Mode().Perm()
+	}
+	if err = f.Chmod(mode); err != nil {
 		return err
 	}
 	if err = f.Sync(); err != nil {

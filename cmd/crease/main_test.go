@@ -69,3 +69,72 @@ func TestWriteFileAtomic(t *testing.T) {
 		t.Errorf("file holds %q, want %q", got, "new")
 	}
 }
+
+// TestWriteFileAtomicModes checks that a replaced file keeps its mode
+// and a new one gets 0666 less the umask, as os.Create would give it.
+func TestWriteFileAtomicModes(t *testing.T) {
+	dir := t.TempDir()
+	private := filepath.Join(dir, "private.json")
+	if err := os.WriteFile(private, []byte("old"), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	os.Chmod(private, 0o600)
+	write := func(w io.Writer) error { _, err := io.WriteString(w, "new"); return err }
+	if err := writeFileAtomic(private, write); err != nil {
+		t.Fatal(err)
+	}
+	if fi, _ := os.Stat(private); fi.Mode().Perm() != 0o600 {
+		t.Errorf("replaced file has mode %v, want 0600 kept", fi.Mode().Perm())
+	}
+	fresh := filepath.Join(dir, "fresh.json")
+	if err := writeFileAtomic(fresh, write); err != nil {
+		t.Fatal(err)
+	}
+	ref := filepath.Join(dir, "ref")
+	f, err := os.Create(ref)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f.Close()
+	a, _ := os.Stat(fresh)
+	b, _ := os.Stat(ref)
+	if a.Mode().Perm() != b.Mode().Perm() {
+		t.Errorf("new file has mode %v, os.Create gives %v", a.Mode().Perm(), b.Mode().Perm())
+	}
+}
+
+// TestExitStatuses checks the documented statuses: 130 for an
+// interrupted run (no output file left), 3 for an internal error, and
+// that crease help CMD prints crease CMD -h.
+func TestExitStatuses(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "t.json")
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	var stdout, stderr bytes.Buffer
+	code := creaseMain(ctx, []string{"trace", digitsModel, digitsSample, "--out", out}, nil, &stdout, &stderr)
+	if code != exitInterrupted || !strings.Contains(stderr.String(), "interrupted") {
+		t.Errorf("cancelled trace: exit %d, stderr %q; want %d and \"interrupted\"", code, stderr.String(), exitInterrupted)
+	}
+	if left, _ := os.ReadDir(dir); len(left) != 0 {
+		t.Errorf("files left after an interrupted run: %v", left)
+	}
+
+	register(&command{name: "panic-for-test", run: func(context.Context, []string, io.Reader, io.Writer, io.Writer) error {
+		var m map[string]int
+		m["x"] = 1 // a nil-map write: a bug
+		return nil
+	}})
+	defer delete(commands, "panic-for-test")
+	stderr.Reset()
+	if code := creaseMain(context.Background(), []string{"panic-for-test"}, nil, &stdout, &stderr); code != exitInternal || !strings.Contains(stderr.String(), "internal error") {
+		t.Errorf("panicking command: exit %d, stderr %q; want %d", code, stderr.String(), exitInternal)
+	}
+
+	var a, b bytes.Buffer
+	ca := creaseMain(context.Background(), []string{"help", "trace"}, nil, &a, &a)
+	cb := creaseMain(context.Background(), []string{"trace", "-h"}, nil, &b, &b)
+	if ca != cb || a.String() != b.String() || !strings.Contains(a.String(), "--maxdim") {
+		t.Errorf("crease help trace (exit %d, %d bytes) differs from crease trace -h (exit %d, %d bytes)", ca, a.Len(), cb, b.Len())
+	}
+}
