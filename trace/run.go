@@ -10,6 +10,7 @@ import (
 	"encoding/hex"
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"os"
 	"runtime"
@@ -29,23 +30,30 @@ const Version = "0.1.0"
 // per node, or fused layers when Settings.Fuse is set), runs the trace and records the
 // file name and SHA-256 in Trace.Model.
 func RunFile(ctx context.Context, path string, s *Sample, set *Settings) (*Trace, error) {
-	data, err := os.ReadFile(path)
-	if err != nil {
-		return nil, err
-	}
+	// Decode first: onnxload bounds what it reads; only then hash the
+	// file, streaming.
 	m, err := onnxload.Open(path, nil)
 	if err != nil {
 		return nil, err
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	h := sha256.New()
+	_, err = io.Copy(h, f)
+	f.Close()
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", path, err)
 	}
 	fuse := set != nil && set.Fuse
 	stages, err := m.Stages(&onnxload.StageSettings{FuseAffine: fuse})
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
-	sum := sha256.Sum256(data)
 	t, err := Run(ctx, stages, s, set)
 	if t != nil {
-		t.Model = ModelInfo{File: path, SHA256: hex.EncodeToString(sum[:])}
+		t.Model = ModelInfo{File: path, SHA256: hex.EncodeToString(h.Sum(nil))}
 	}
 	return t, err
 }

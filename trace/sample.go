@@ -5,6 +5,7 @@
 package trace
 
 import (
+	"bytes"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -20,6 +21,47 @@ import (
 
 	"crease.dev/crease/internal/npy"
 )
+
+// Limits of ReadCSV: a longer stream, or a longer line (/dev/zero),
+// is refused rather than read into memory.
+const (
+	// MaxCSVBytes is the largest CSV input read (256 MiB).
+	MaxCSVBytes = 256 << 20
+	// MaxCSVLine is the longest line read (16 MiB).
+	MaxCSVLine = 16 << 20
+)
+
+// capReader reads from r and fails once more than left bytes come, or
+// a line grows longer than MaxCSVLine.
+type capReader struct {
+	r    io.Reader
+	left int64
+	line int64 // bytes since the last newline
+}
+
+func (c *capReader) Read(p []byte) (int, error) {
+	if c.left <= 0 {
+		var one [1]byte
+		if n, _ := c.r.Read(one[:]); n > 0 {
+			return 0, fmt.Errorf("input larger than %d bytes (trace.MaxCSVBytes)", MaxCSVBytes)
+		}
+		return c.r.Read(p)
+	}
+	if int64(len(p)) > c.left {
+		p = p[:c.left]
+	}
+	n, err := c.r.Read(p)
+	c.left -= int64(n)
+	if i := bytes.LastIndexByte(p[:n], '\n'); i >= 0 {
+		c.line = int64(n - 1 - i)
+	} else {
+		c.line += int64(n)
+	}
+	if c.line > MaxCSVLine {
+		return 0, fmt.Errorf("a line longer than %d bytes (trace.MaxCSVLine)", MaxCSVLine)
+	}
+	return n, err
+}
 
 // MinClassPoints is the fewest points a class may have.
 const MinClassPoints = 3
@@ -190,7 +232,7 @@ func ReadCSV(r io.Reader, name string, set *CSVSettings) (*Sample, error) {
 	if set == nil {
 		set = &CSVSettings{}
 	}
-	cr := csv.NewReader(r)
+	cr := csv.NewReader(&capReader{r: r, left: MaxCSVBytes})
 	cr.Comment = '#'
 	cr.TrimLeadingSpace = true
 	var records [][]string

@@ -6,6 +6,7 @@ package trace_test
 
 import (
 	"bytes"
+	"io"
 	"os"
 	"strings"
 	"testing"
@@ -182,5 +183,41 @@ func TestReadNPYNumpyTypes(t *testing.T) {
 	_, err := trace.ReadNPY(open("sample_x_f4"), "x.npy", open("labels_i8"), "y.npy")
 	if err == nil || !strings.Contains(err.Error(), "4 labels but x.npy has 6 rows") {
 		t.Errorf("got %v, want a count mismatch naming both files", err)
+	}
+}
+
+// zeros is an endless stream of NUL bytes, like /dev/zero.
+type zeros struct{}
+
+func (zeros) Read(p []byte) (int, error) {
+	clear(p)
+	return len(p), nil
+}
+
+// newlines is an endless stream of empty lines.
+type newlines struct{}
+
+func (newlines) Read(p []byte) (int, error) {
+	for i := range p {
+		p[i] = '\n'
+	}
+	return len(p), nil
+}
+
+// TestReadCSVBounded checks that an endless stream is refused once it
+// passes the limits, instead of being read into memory.
+func TestReadCSVBounded(t *testing.T) {
+	for _, tc := range []struct {
+		name string
+		r    io.Reader
+		want string
+	}{
+		{"one endless line", zeros{}, "MaxCSVLine"},
+		{"endless lines", newlines{}, "MaxCSVBytes"},
+	} {
+		_, err := trace.ReadCSV(tc.r, "endless.csv", nil)
+		if err == nil || !strings.Contains(err.Error(), tc.want) || !strings.Contains(err.Error(), "endless.csv") {
+			t.Errorf("%s: err = %v, want it to name the file and %s", tc.name, err, tc.want)
+		}
 	}
 }
