@@ -117,15 +117,17 @@ func isStageMeasure(m string) bool {
 }
 
 // WriteTable writes a readable per-stage table: stage, kind, width, the
-// whole sample's Betti numbers, each class's Betti numbers and the
-// glued pair counts.
+// whole sample's Betti numbers, each class's Betti numbers, the glued
+// pair counts, and the separation of the classes: leave-one-out k-NN
+// accuracy ("knn.accuracy"), linear-probe accuracy ("probe.accuracy")
+// and the margin ratio ("margin.ratio"), "-" where not measured.
 func (t *Trace) WriteTable(w io.Writer) error {
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprint(tw, "stage\tkind\twidth\twhole")
 	for _, c := range t.Sample.Classes {
 		fmt.Fprintf(tw, "\t%s", c)
 	}
-	fmt.Fprint(tw, "\tglued within\tglued cross\n")
+	fmt.Fprint(tw, "\tglued within\tglued cross\tknn\tprobe\tmargin\n")
 	for i := range t.Stages {
 		s := &t.Stages[i]
 		fmt.Fprintf(tw, "%d\t%s\t%d\t%s", s.Index, s.Kind, s.Width, s.Whole.BettiString())
@@ -133,10 +135,20 @@ func (t *Trace) WriteTable(w io.Writer) error {
 			fmt.Fprintf(tw, "\t%s", s.Classes[c].BettiString())
 		}
 		if s.Glued != nil {
-			fmt.Fprintf(tw, "\t%d\t%d\n", s.Glued.Within, s.Glued.Cross)
+			fmt.Fprintf(tw, "\t%d\t%d", s.Glued.Within, s.Glued.Cross)
 		} else {
-			fmt.Fprint(tw, "\t-\t-\n")
+			fmt.Fprint(tw, "\t-\t-")
 		}
+		for _, m := range [...]struct {
+			name, format string
+		}{{"knn.accuracy", "%.3f"}, {"probe.accuracy", "%.3f"}, {"margin.ratio", "%.3g"}} {
+			if v, ok := s.Measures[m.name]; ok {
+				fmt.Fprintf(tw, "\t"+m.format, v)
+			} else {
+				fmt.Fprint(tw, "\t-")
+			}
+		}
+		fmt.Fprintln(tw)
 	}
 	return tw.Flush()
 }

@@ -59,6 +59,7 @@ func runDemo(ctx context.Context, args []string, stdin io.Reader, stdout, stderr
 			return err
 		}
 		fmt.Fprintf(stdout, "verdict on %s: %s.\n", name, demo.Judge(tr).String(tr))
+		fmt.Fprintf(stdout, "separation on %s: %s.\n", name, tr.Separation())
 		if *dir != "" {
 			path := filepath.Join(*dir, name+".json")
 			if err := writeFileAtomic(path, tr.WriteJSON); err != nil {

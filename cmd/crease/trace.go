@@ -123,6 +123,7 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 	if err := tr.WriteTable(stdout); err != nil {
 		return err
 	}
+	fmt.Fprintf(stdout, "# separation: %s\n", tr.Separation())
 	if *out != "" {
 		if err := writeFileAtomic(*out, tr.WriteJSON); err != nil {
 			return err
