@@ -13,6 +13,7 @@ import (
 	"os"
 	"os/signal"
 	"path/filepath"
+	"regexp"
 	"sort"
 	"syscall"
 )
@@ -104,11 +105,28 @@ func creaseMain(ctx context.Context, args []string, stdin io.Reader, stdout, std
 		fmt.Fprintf(stderr, "crease %s: interrupted\n", c.name)
 		return exitInterrupted
 	case errors.Is(err, errCheckFailed):
-		fmt.Fprintf(stderr, "crease %s: %v\n", c.name, err)
+		fmt.Fprintf(stderr, "crease %s: %s\n", c.name, plain(err))
 		return exitCheckFailed
 	default:
-		fmt.Fprintf(stderr, "crease %s: %v\n", c.name, err)
+		fmt.Fprintf(stderr, "crease %s: %s\n", c.name, plain(err))
 		return exitBadInput
+	}
+}
+
+// libraryPrefix matches the "package: " prefixes of the project's
+// library errors (Go's convention), which say nothing to a user of the
+// command, at the start of the message or of a wrapped part of it.
+var libraryPrefix = regexp.MustCompile(`(^|: |\()(onnxload|homology|relu|overlap|trace|tracecheck|knn|csvnum|npy|demo): `)
+
+// plain returns the message of err without the library prefixes.
+func plain(err error) string {
+	msg := err.Error()
+	for {
+		next := libraryPrefix.ReplaceAllString(msg, "$1")
+		if next == msg {
+			return msg
+		}
+		msg = next
 	}
 }
 

@@ -7,6 +7,7 @@ package main
 import (
 	"bytes"
 	"context"
+	"errors"
 	"io"
 	"os"
 	"path/filepath"
@@ -136,5 +137,25 @@ func TestExitStatuses(t *testing.T) {
 	cb := creaseMain(context.Background(), []string{"trace", "-h"}, nil, &b, &b)
 	if ca != cb || a.String() != b.String() || !strings.Contains(a.String(), "--maxdim") {
 		t.Errorf("crease help trace (exit %d, %d bytes) differs from crease trace -h (exit %d, %d bytes)", ca, a.Len(), cb, b.Len())
+	}
+}
+
+func TestPlainMessages(t *testing.T) {
+	for _, tc := range []struct{ in, want string }{
+		{"trace: stage 3: relu: no rows", "stage 3: no rows"},
+		{"x.npy: cannot read NPY features: npy: invalid file: no magic", "x.npy: cannot read NPY features: invalid file: no magic"},
+		{"decode m.onnx: onnxload: node \"a\" (Conv)", "decode m.onnx: node \"a\" (Conv)"},
+		{"in.csv:3: csvnum: bad (knn: row 2)", "in.csv:3: bad (row 2)"},
+		{"check failed: stage 2 differs", "check failed: stage 2 differs"},
+	} {
+		if got := plain(errors.New(tc.in)); got != tc.want {
+			t.Errorf("plain(%q) = %q, want %q", tc.in, got, tc.want)
+		}
+	}
+	var out, errb bytes.Buffer
+	empty := filepath.Join(t.TempDir(), "empty.json")
+	os.WriteFile(empty, nil, 0o644)
+	if code := creaseMain(context.Background(), []string{"report", empty}, nil, &out, &errb); code != exitBadInput || !strings.Contains(errb.String(), "empty.json: the file is empty") || strings.Contains(errb.String(), "trace:") {
+		t.Errorf("report of an empty file: exit %d, %q", code, errb.String())
 	}
 }
