@@ -183,9 +183,13 @@ func stageName(nodes []string) string {
 	for _, n := range nodes {
 		name := n
 		if strings.HasPrefix(n, "/") {
+			// PyTorch (1.13 and later) names a node by its module
+			// scopes and op, e.g. "/layers/layers.0/Gemm", each scope
+			// the module's full dotted name: the innermost is the name
+			// named_modules() gives.
 			parts := strings.Split(strings.Trim(n, "/"), "/")
 			if len(parts) > 1 {
-				name = strings.Join(parts[:len(parts)-1], ".")
+				name = parts[len(parts)-2]
 			}
 		}
 		if len(names) == 0 || names[len(names)-1] != name {
@@ -193,6 +197,12 @@ func stageName(nodes []string) string {
 		}
 	}
 	return strings.Join(names, "+")
+}
+
+// functional reports whether a PyTorch node name has no module scope
+// ("/Relu", "/Softmax").
+func functional(label string) bool {
+	return strings.HasPrefix(label, "/") && !strings.Contains(label[1:], "/")
 }
 
 func nodeLabel(n *Node, i int) string {
@@ -248,6 +258,11 @@ func (b *builder) checkSize(n *Node, i int, rows, cols int) error {
 func (b *builder) push(n *Node, i int, s Stage, shape []int64) {
 	s.Nodes = append(append(b.pending, b.constOrigins(n)...), nodeLabel(n, i))
 	s.Name = stageName([]string{nodeLabel(n, i)})
+	if functional(nodeLabel(n, i)) && len(b.stages) > 0 && s.Kind != Affine {
+		// A functional activation (F.relu, torch.softmax) belongs to no
+		// module: name it after the module it follows.
+		s.Name = b.stages[len(b.stages)-1].Name + ":" + s.Kind.String()
+	}
 	b.pending = nil
 	b.stages = append(b.stages, s)
 	b.cur = &value{shape: shape, stage: len(b.stages) - 1}
