@@ -51,6 +51,15 @@ func RunFile(ctx context.Context, path string, s *Sample, set *Settings) (*Trace
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
+	if s != nil && s.X != nil && len(stages) > 0 {
+		if _, w := s.X.Dims(); w != stages[0].In {
+			src := s.Source
+			if src == "" {
+				src = "the sample"
+			}
+			return nil, fmt.Errorf("trace: %s has %d feature columns but %s takes inputs of width %d", src, w, path, stages[0].In)
+		}
+	}
 	t, err := Run(ctx, stages, s, set)
 	if t != nil {
 		t.Model = ModelInfo{File: path, SHA256: hex.EncodeToString(h.Sum(nil))}

@@ -34,6 +34,8 @@ const barcodeSynopsis = "POINTS.csv [--maxdim D] [--threshold T] [--metric eucli
 // bars in the canonical order of package homology.
 func runBarcode(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	fs := newFlagSet("barcode", barcodeSynopsis, stderr)
+	labelCol := fs.String("labels", "", "read the labeled CSV of crease trace and drop this label column (header name or 1-based number)")
+	headerMode := fs.String("header", "auto", "with --labels: is the first record a header: auto, yes or no")
 	maxDim := fs.Int("maxdim", 1, "highest homology dimension, 0..3")
 	threshold := fs.Float64("threshold", 0, "largest edge length; 0 means the enclosing radius")
 	metric := fs.String("metric", "euclidean", "distance: euclidean, cosine or knn (hop count on the k-NN graph)")
@@ -57,7 +59,7 @@ func runBarcode(ctx context.Context, args []string, stdin io.Reader, stdout, std
 	if *landmarks < 0 {
 		return fmt.Errorf("--landmarks %d is negative", *landmarks)
 	}
-	pts, name, err := readPoints(pos[0], stdin)
+	pts, name, err := readPoints(pos[0], stdin, *labelCol, *headerMode)
 	if err != nil {
 		return err
 	}

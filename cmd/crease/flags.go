@@ -13,6 +13,7 @@ import (
 	"gonum.org/v1/gonum/mat"
 
 	"crease.dev/crease/internal/csvnum"
+	"crease.dev/crease/trace"
 )
 
 // newFlagSet returns a flag set for a subcommand whose errors and help go
@@ -53,10 +54,22 @@ func parseFlags(fs *flag.FlagSet, args []string) ([]string, error) {
 
 // readPoints reads the numeric table arg ("-" is stdin) into a matrix,
 // one row per line. It returns the name to use in messages.
-func readPoints(arg string, stdin io.Reader) (*mat.Dense, string, error) {
+//
+// With a label column (labels not empty: a header name or a 1-based
+// column number, as for crease trace) it reads the labeled CSV of crease
+// trace and drops that column; header is trace's --header.
+func readPoints(arg string, stdin io.Reader, labels, header string) (*mat.Dense, string, error) {
 	r, closeIn, name, err := openInput(arg, stdin)
 	if err != nil {
 		return nil, name, err
+	}
+	if labels != "" {
+		s, err := trace.ReadCSV(r, name, &trace.CSVSettings{Label: labels, Header: header})
+		closeIn()
+		if err != nil {
+			return nil, name, err
+		}
+		return s.X, name, nil
 	}
 	rows, width, err := csvnum.Read(r, name, nil)
 	closeIn()

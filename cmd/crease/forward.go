@@ -26,6 +26,8 @@ func init() {
 
 func runForward(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	fs := newFlagSet("forward", "[--stage K] [--fuse] MODEL.onnx INPUT.csv", stderr)
+	labelCol := fs.String("labels", "", "read the labeled CSV of crease trace and drop this label column (header name or 1-based number)")
+	headerMode := fs.String("header", "auto", "with --labels: is the first record a header: auto, yes or no")
 	stage := fs.Int("stage", -1, "stage whose output to print, numbered as by 'crease stages' and 'crease trace' (0 is the input, 1 the first stage); negative counts from the end (-1 is the last)")
 	fuse := fs.Bool("fuse", false, "fuse consecutive affine stages, so K counts layers")
 	pos, err := parseFlags(fs, args)
@@ -49,7 +51,7 @@ func runForward(ctx context.Context, args []string, stdin io.Reader, stdout, std
 	if k < 0 || k > len(stages) {
 		return fmt.Errorf("--stage %d is out of range: %s has stages 0 (the input) to %d", *stage, pos[0], len(stages))
 	}
-	x, name, err := readPoints(pos[1], stdin)
+	x, name, err := readPoints(pos[1], stdin, *labelCol, *headerMode)
 	if err != nil {
 		return err
 	}

@@ -7,6 +7,7 @@ package main
 import (
 	"bytes"
 	"math"
+	"os"
 	"strconv"
 	"strings"
 	"testing"
@@ -104,5 +105,34 @@ func TestForwardErrors(t *testing.T) {
 				t.Errorf("stdout not empty: %q", out.String())
 			}
 		})
+	}
+}
+
+// TestForwardLabeledCSV checks that forward and barcode read the
+// labeled CSV of crease trace with --labels, dropping that column.
+func TestForwardLabeledCSV(t *testing.T) {
+	labeled, err := os.ReadFile(digitsSample)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The same rows without the header and the label column (the last).
+	var plain strings.Builder
+	for i, line := range strings.Split(strings.TrimSpace(string(labeled)), "\n") {
+		if i == 0 {
+			continue
+		}
+		plain.WriteString(line[:strings.LastIndexByte(line, ',')] + "\n")
+	}
+	for _, cmd := range [][]string{{"forward", digitsModel}, {"barcode", "--maxdim", "0"}} {
+		var a, b, errb bytes.Buffer
+		if code := creaseMain(t.Context(), append(append([]string{}, cmd...), digitsSample, "--labels", "label"), nil, &a, &errb); code != 0 {
+			t.Fatalf("%s --labels: exit %d: %s", cmd[0], code, errb.String())
+		}
+		if code := creaseMain(t.Context(), append(append([]string{}, cmd...), "-"), strings.NewReader(plain.String()), &b, &errb); code != 0 {
+			t.Fatalf("%s: exit %d: %s", cmd[0], code, errb.String())
+		}
+		if a.String() != b.String() || a.Len() == 0 {
+			t.Errorf("%s: --labels output differs from the unlabeled rows' (%d and %d bytes)", cmd[0], a.Len(), b.Len())
+		}
 	}
 }

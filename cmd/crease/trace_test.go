@@ -103,7 +103,7 @@ func TestTraceBadInput(t *testing.T) {
 	}{
 		{"unknown label column", []string{digitsModel, digitsSample, "--labels", "digit"}, `no label column named "digit"`},
 		{"small class", []string{digitsModel, smallCSV(t, 64, 5, strings.Repeat("0,", 64)+"c\n"+strings.Repeat("0,", 64)+"c\n")}, `class "c" has 2 points`},
-		{"width", []string{digitsModel, smallCSV(t, 3, 5, "")}, "3 feature columns but the model's input width is 64"},
+		{"width", []string{digitsModel, smallCSV(t, 3, 5, "")}, "s.csv has 3 feature columns but " + digitsModel + " takes inputs of width 64"},
 		{"nan", []string{digitsModel, smallCSV(t, 64, 5, strings.Repeat("0,", 63)+"NaN,a\n")}, "column 64: \"NaN\" is not finite"},
 		{"npy", []string{digitsModel, notNPY, "--labels", notNPY}, "x.npy: cannot read NPY features"},
 		{"npy without labels", []string{digitsModel, notNPY}, "need --labels LABELS.npy"},
