@@ -41,7 +41,10 @@
 // Unsqueeze and Concat that x.view(x.size(0), −1) exports with a dynamic
 // batch are folded into the Reshape), Identity and Dropout
 // (no stage), and the activations Relu, LeakyRelu, Elu, Softplus,
-// Sigmoid, Tanh, Softmax and LogSoftmax over the feature axis. Constant
+// Sigmoid, Tanh, Softmax and LogSoftmax over the feature axis, and GELU
+// and SiLU from the node patterns PyTorch 1.13 exports for them at
+// opsets 9–17 (x·(1 + erf(x/√2))/2 as Div, Erf, Add, Mul, Mul; x·σ(x) as
+// Sigmoid and Mul), each made one stage. Constant
 // nodes and initializers listed as graph inputs (IR version 3) are
 // handled. All numbers are float64; float32 initializers are converted
 // exactly.

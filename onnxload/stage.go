@@ -25,9 +25,11 @@ const (
 	Softmax                    // eˣⁱ / Σⱼ eˣʲ over each row
 	LogSoftmax                 // xᵢ − log Σⱼ eˣʲ over each row
 	Reshape                    // rows unchanged (Flatten, Reshape to (N, −1))
+	GELU                       // x·Φ(x) = x·(1 + erf(x/√2))/2 (PyTorch's Erf pattern)
+	SiLU                       // x·σ(x) (PyTorch's Sigmoid·Mul pattern)
 )
 
-var kindNames = [...]string{"", "affine", "relu", "leaky-relu", "elu", "softplus", "sigmoid", "tanh", "softmax", "log-softmax", "reshape"}
+var kindNames = [...]string{"", "affine", "relu", "leaky-relu", "elu", "softplus", "sigmoid", "tanh", "softmax", "log-softmax", "reshape", "gelu", "silu"}
 
 // String returns the kind's name, such as "leaky-relu".
 func (k Kind) String() string {
@@ -131,6 +133,19 @@ func applyRow(k Kind, alpha float64, row []float64) {
 	case Tanh:
 		for j, v := range row {
 			row[j] = math.Tanh(v)
+		}
+	case GELU:
+		for j, v := range row {
+			row[j] = 0.5 * v * math.Erfc(-v/math.Sqrt2)
+		}
+	case SiLU:
+		for j, v := range row {
+			if v >= 0 {
+				row[j] = v / (1 + math.Exp(-v))
+			} else {
+				e := math.Exp(v)
+				row[j] = v * e / (1 + e)
+			}
 		}
 	case Softmax, LogSoftmax:
 		m := math.Inf(-1)

@@ -67,6 +67,9 @@ type builder struct {
 	cur *value
 	// pending holds names of pass-through nodes seen before any stage.
 	pending []string
+	// fused holds, for a node standing for a pattern (patterns), the
+	// labels of the nodes it replaces.
+	fused map[*Node][]string
 	// maxElements bounds the size of any weight matrix built.
 	maxElements int64
 	// matmul marks affine stages made by a bias-free MatMul that an
@@ -118,7 +121,9 @@ func (m *Model) Stages(set *StageSettings) ([]Stage, error) {
 	}
 	b.cur = &value{shape: shape, stage: -1}
 	b.vals[in.Name] = b.cur
-	for _, n := range m.Nodes {
+	nodes, fused := patterns(m, m.Nodes)
+	b.fused = fused
+	for _, n := range nodes {
 		for _, name := range n.Inputs {
 			b.uses[name]++
 		}
@@ -126,7 +131,7 @@ func (m *Model) Stages(set *StageSettings) ([]Stage, error) {
 	for _, v := range m.Outputs {
 		b.uses[v.Name]++
 	}
-	for i, n := range m.Nodes {
+	for i, n := range nodes {
 		if err := b.node(n, i); err != nil {
 			return nil, err
 		}
@@ -257,6 +262,9 @@ func (b *builder) checkSize(n *Node, i int, rows, cols int) error {
 // push appends a stage fed by the current data value.
 func (b *builder) push(n *Node, i int, s Stage, shape []int64) {
 	s.Nodes = append(append(b.pending, b.constOrigins(n)...), nodeLabel(n, i))
+	if labels := b.fused[n]; labels != nil {
+		s.Nodes = append(s.Nodes[:len(s.Nodes)-1], labels...)
+	}
 	s.Name = stageName([]string{nodeLabel(n, i)})
 	if functional(nodeLabel(n, i)) && len(b.stages) > 0 && s.Kind != Affine {
 		// A functional activation (F.relu, torch.softmax) belongs to no
@@ -290,12 +298,12 @@ func (b *builder) node(n *Node, i int) error {
 		"Flatten": {1, 1}, "Reshape": {2, 2}, "Identity": {1, 1}, "Dropout": {1, 3},
 		"Relu": {1, 1}, "LeakyRelu": {1, 1}, "Elu": {1, 1}, "Softplus": {1, 1},
 		"Sigmoid": {1, 1}, "Tanh": {1, 1}, "Softmax": {1, 1}, "LogSoftmax": {1, 1},
-		"Constant": {0, 0}, "Transpose": {1, 1},
+		"Constant": {0, 0}, "Transpose": {1, 1}, patternGELU: {1, 4}, patternSiLU: {1, 1},
 		"Shape": {1, 1}, "Gather": {2, 2}, "Unsqueeze": {1, 2}, "Concat": {1, math.MaxInt32},
 	}
 	ar, ok := nin[n.OpType]
 	if !ok {
-		return b.unsupported(n, i, "operator %s is not supported; supported operators: %s", n.OpType, strings.Join(SupportedOps, ", "))
+		return b.unsupported(n, i, "operator %s is not supported; supported operators: %s, and the GELU (Div, Erf, Add, Mul, Mul) and SiLU (Sigmoid, Mul) patterns PyTorch exports", n.OpType, strings.Join(SupportedOps, ", "))
 	}
 	if len(n.Inputs) < ar[0] || len(n.Inputs) > ar[1] {
 		return b.malformed(n, i, "%s has %d inputs, want %d to %d", n.OpType, len(n.Inputs), ar[0], ar[1])
@@ -378,6 +386,13 @@ func (b *builder) node(n *Node, i int) error {
 			b.pending = append(append(b.pending, b.constOrigins(n)...), nodeLabel(n, i))
 		}
 		b.setOutput(n, data)
+		return nil
+	case patternGELU, patternSiLU:
+		k := GELU
+		if n.OpType == patternSiLU {
+			k = SiLU
+		}
+		b.push(n, i, Stage{Kind: k, In: w, Out: w}, data.shape)
 		return nil
 	case "Relu", "Sigmoid", "Tanh", "Softplus":
 		k := map[string]Kind{"Relu": ReLU, "Sigmoid": Sigmoid, "Tanh": Tanh, "Softplus": Softplus}[n.OpType]

@@ -47,6 +47,19 @@ class Seq(nn.Module):
         return self.layers(x)
 
 
+class Functional(nn.Module):
+    """F.gelu and F.silu, which PyTorch 1.13 exports as node patterns."""
+
+    def __init__(self):
+        super().__init__()
+        self.fc1 = nn.Linear(4, 8)
+        self.fc2 = nn.Linear(8, 6)
+        self.fc3 = nn.Linear(6, 2)
+
+    def forward(self, x):
+        return self.fc3(F.silu(self.fc2(F.gelu(self.fc1(x)))))
+
+
 class Lst(nn.Module):
     """A ModuleList of blocks, each a Sequential."""
 
@@ -66,9 +79,9 @@ def nested():
     return nn.Sequential(nn.Sequential(nn.Linear(4, 8), nn.ReLU()), nn.Linear(8, 3))
 
 
-def sidecar(name, m, x, stages):
+def sidecar(name, m, x, stages, opset=13):
     path = os.path.join(out, name + ".onnx")
-    torch.onnx.export(m, x, path, opset_version=13, input_names=["x"], output_names=["y"],
+    torch.onnx.export(m, x, path, opset_version=opset, input_names=["x"], output_names=["y"],
                       dynamic_axes={"x": {0: "batch"}})
     g = onnx.load(path)
     side = {
@@ -106,3 +119,15 @@ with torch.no_grad():
     for name, m in [("names_seq", Seq()), ("names_list", Lst()), ("names_nested", nested())]:
         m.eval()
         sidecar(name, m, x, hooked(m, x))
+    # GELU (the Erf pattern) and SiLU (Sigmoid·Mul) at the opsets where
+    # PyTorch 1.13 exports them that way (Erf exists from opset 9).
+    x = torch.randn(6, 4) * 2
+    act = nn.Sequential(nn.Linear(4, 6), nn.GELU(), nn.Linear(6, 5), nn.SiLU(), nn.Linear(5, 2)).eval()
+    for opset in (9, 13, 17):
+        sidecar("act_gelu_silu_op%d" % opset, act, x, hooked(act, x), opset)
+    f = Functional().eval()
+    h1 = f.fc1(x)
+    g1 = F.gelu(h1)
+    h2 = f.fc2(g1)
+    s2 = F.silu(h2)
+    sidecar("act_functional", f, x, [("fc1", h1), ("fc1:gelu", g1), ("fc2", h2), ("fc2:silu", s2), ("fc3", f.fc3(s2))])
