@@ -59,3 +59,38 @@ func TestWorkersDeterministic(t *testing.T) {
 		t.Error("1 and 3 workers gave different JSON")
 	}
 }
+
+// countWriter counts the bytes written to it.
+type countWriter struct{ n int }
+
+func (c *countWriter) Write(p []byte) (int, error) {
+	c.n += len(p)
+	return len(p), nil
+}
+
+// FuzzReadJSON feeds edited traces to ReadJSON and every accepted trace
+// to the readers of a trace (the report, the table, the long CSV and
+// compare), which must not panic, and whose report must stay within a
+// fixed multiple of the input (a 94 KB trace once made a 404 MB report).
+func FuzzReadJSON(f *testing.F) {
+	var buf bytes.Buffer
+	if err := circleTrace(f).WriteJSON(&buf); err != nil {
+		f.Fatal(err)
+	}
+	f.Add(buf.Bytes())
+	f.Add([]byte(`{"schema": 1, "stages": []}`))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		tr, err := trace.ReadJSON(bytes.NewReader(data))
+		if err != nil {
+			return
+		}
+		var html countWriter
+		_ = tr.WriteHTML(&html)
+		if limit := 2000*len(data) + 4<<20; html.n > limit {
+			t.Fatalf("a %d-byte trace made a %d-byte report", len(data), html.n)
+		}
+		_ = tr.WriteTable(&countWriter{})
+		_ = tr.WriteCSV(&countWriter{})
+		_, _ = trace.Compare(tr, tr, nil)
+	})
+}

@@ -6,6 +6,7 @@ package demo
 
 import (
 	"context"
+	"math"
 	"slices"
 	"strings"
 	"testing"
@@ -81,6 +82,49 @@ func TestBadModelName(t *testing.T) {
 	for _, name := range []string{"", "arm", "../demo"} {
 		if _, err := Model(name); err == nil || !strings.Contains(err.Error(), "no embedded model") {
 			t.Errorf("Model(%q): error %v, want one naming the missing model", name, err)
+		}
+	}
+}
+
+// TestClassOrder checks class identity on the demo's PyTorch 1.13
+// models (testdata/gen/demo_arm.py), which were trained with the text
+// labels in the order clear, near, contact: not alphabetical. Whether
+// the order is given (as Run does, from the generator's record) or
+// inferred from the model's predictions, the softmax Voronoi test must
+// find inside their own cell exactly the points the model classifies
+// right, its accuracy that PyTorch recorded.
+func TestClassOrder(t *testing.T) {
+	meta, err := Meta()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if slices.IsSorted(meta.Classes) {
+		t.Fatalf("classes %v are alphabetical; the test needs another order", meta.Classes)
+	}
+	for _, name := range Models {
+		info, err := TrainingOf(name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		stages, err := Stages(name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		s, err := Sample()
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, order := range [][]string{meta.Classes, nil} {
+			set := &trace.Settings{MaxDim: trace.H0Only, SkipProbe: true, SkipWhole: true, Cap: -1, ClassOrder: order}
+			tr, err := trace.Run(context.Background(), stages, s, set)
+			if err != nil {
+				t.Fatal(err)
+			}
+			last := tr.Stages[len(tr.Stages)-1]
+			got := last.Measures["voronoi.inside"]
+			if math.Abs(got-info.AccuracyDemo) > 1e-9 {
+				t.Errorf("%s, order %v (%s): voronoi.inside %v, PyTorch's accuracy %v", name, order, tr.Sample.Units.Source, got, info.AccuracyDemo)
+			}
 		}
 	}
 }
