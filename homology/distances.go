@@ -46,7 +46,7 @@ func NewLowerTriangular(n int, data []float64) (*LowerTriangular, error) {
 		row := data[i*(i-1)/2 : i*(i-1)/2+i]
 		for j, d := range row {
 			if math.IsNaN(d) || d < 0 {
-				return nil, fmt.Errorf("%w: entry (row %d, column %d) is %v", ErrDistances, i, j, d)
+				return nil, fmt.Errorf("%w: entry (row %d, column %d) is %v", ErrDistances, i+1, j+1, d)
 			}
 		}
 	}
@@ -61,7 +61,7 @@ func NewFullDistances(m [][]float64) (*LowerTriangular, error) {
 	data := make([]float64, n*(n-1)/2)
 	for i, row := range m {
 		if len(row) != n {
-			return nil, fmt.Errorf("%w: row %d has %d entries, want %d", ErrDistances, i, len(row), n)
+			return nil, fmt.Errorf("%w: row %d has %d entries, want %d", ErrDistances, i+1, len(row), n)
 		}
 	}
 	for i := 0; i < n; i++ {
@@ -71,7 +71,7 @@ func NewFullDistances(m [][]float64) (*LowerTriangular, error) {
 		for j := 0; j < i; j++ {
 			a, b := m[i][j], m[j][i]
 			if math.IsNaN(a) || a < 0 {
-				return nil, fmt.Errorf("%w: entry (row %d, column %d) is %v", ErrDistances, i, j, a)
+				return nil, fmt.Errorf("%w: entry (row %d, column %d) is %v", ErrDistances, i+1, j+1, a)
 			}
 			if a != b && !(math.Abs(a-b) <= 1e-9*math.Max(math.Abs(a), math.Abs(b))) {
 				return nil, fmt.Errorf("%w: not symmetric: (%d,%d) is %v but (%d,%d) is %v", ErrDistances, i, j, a, j, i, b)

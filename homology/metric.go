@@ -62,7 +62,7 @@ func cloudFromRows(rows [][]float64) (*cloud, error) {
 	cl := &cloud{n: len(rows), dim: c, x: make([]float64, len(rows)*c)}
 	for i, r := range rows {
 		if len(r) != c {
-			return nil, fmt.Errorf("%w: row %d has %d coordinates, row 0 has %d", ErrRagged, i, len(r), c)
+			return nil, fmt.Errorf("%w: row %d has %d coordinates, row 1 has %d", ErrRagged, i+1, len(r), c)
 		}
 		copy(cl.x[i*c:], r)
 	}
@@ -72,10 +72,10 @@ func cloudFromRows(rows [][]float64) (*cloud, error) {
 func (c *cloud) checkFinite() error {
 	for k, v := range c.x {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return fmt.Errorf("%w: %v at row %d, column %d", ErrNonFinite, v, k/c.dim, k%c.dim)
+			return fmt.Errorf("%w: %v at row %d, column %d", ErrNonFinite, v, k/c.dim+1, k%c.dim+1)
 		}
 		if math.Abs(v) > MaxCoordinate {
-			return fmt.Errorf("%w: %v at row %d, column %d is above %g, where squared distances overflow", ErrMagnitude, v, k/c.dim, k%c.dim, MaxCoordinate)
+			return fmt.Errorf("%w: %v at row %d, column %d is above %g, where squared distances overflow", ErrMagnitude, v, k/c.dim+1, k%c.dim+1, MaxCoordinate)
 		}
 	}
 	return nil
@@ -179,7 +179,7 @@ func cosineNorms(c *cloud) ([]float64, error) {
 	norm := make([]float64, c.n)
 	for i := range norm {
 		if norm[i] = math.Sqrt(dot(c.row(i), c.row(i))); norm[i] == 0 {
-			return nil, fmt.Errorf("homology: cosine metric: row %d is the zero vector", i)
+			return nil, fmt.Errorf("homology: cosine metric: row %d is the zero vector", i+1)
 		}
 	}
 	return norm, nil

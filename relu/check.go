@@ -24,7 +24,7 @@ func checkMatrix(name string, x mat.Matrix) (n, d int, err error) {
 	for i := 0; i < n; i++ {
 		for j := 0; j < d; j++ {
 			if v := x.At(i, j); math.IsNaN(v) || math.IsInf(v, 0) {
-				return 0, 0, fmt.Errorf("relu: %s: row %d, column %d: non-finite value %v", name, i, j, v)
+				return 0, 0, fmt.Errorf("relu: %s: row %d, column %d: non-finite value %v", name, i+1, j+1, v)
 			}
 		}
 	}
@@ -57,7 +57,7 @@ func checkLabels(labels []int, n int) error {
 	}
 	for i, c := range labels {
 		if c < 0 {
-			return fmt.Errorf("relu: label of row %d is %d, want a class index ≥ 0", i, c)
+			return fmt.Errorf("relu: label of row %d is %d, want a class index ≥ 0", i+1, c)
 		}
 	}
 	return nil

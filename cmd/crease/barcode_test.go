@@ -92,7 +92,7 @@ func TestBarcodeCLIBadInput(t *testing.T) {
 		{"nan", "0,0\nNaN,1\n", []string{"-"}, "<stdin>:2: column 1"},
 		// Squares of 1e155 overflow float64 (IEEE 754 ends near 1.8e308);
 		// this cloud once read as three infinite H0 bars.
-		{"overflowing squares", "0,0\n1e155,0\n2e155,0\n", []string{"-"}, "1e+155 at row 1, column 0 is above 1e+150"},
+		{"overflowing squares", "0,0\n1e155,0\n2e155,0\n", []string{"-"}, "1e+155 at row 2, column 1 is above 1e+150"},
 		{"overflowing squares, collapsed", "0,0\n1e155,0\n2e155,0\n", []string{"-", "--collapse", "--threshold", "1e300"}, "above 1e+150"},
 		{"empty", "", []string{"-"}, "no data rows"},
 		{"one point", "1,2\n", []string{"-"}, "at least 2 points"},
@@ -104,7 +104,7 @@ func TestBarcodeCLIBadInput(t *testing.T) {
 		{"no file", "", nil, "usage"},
 		{"missing file", "", []string{"/nonexistent/points.csv"}, "no such file"},
 		{"one point, collapsed at a threshold", "1,2,3\n", []string{"-", "--collapse", "--threshold", "1"}, "at least 2 points"},
-		{"zero vector, cosine collapsed", "0,0,0\n1,1,1\n", []string{"-", "--collapse", "--metric", "cosine", "--threshold", "1"}, "row 0 is the zero vector"},
+		{"zero vector, cosine collapsed", "0,0,0\n1,1,1\n", []string{"-", "--collapse", "--metric", "cosine", "--threshold", "1"}, "row 1 is the zero vector"},
 	} {
 		t.Run(test.name, func(t *testing.T) {
 			code, out, errs := runBarcodeCLI(t, test.in, test.args...)

@@ -42,7 +42,8 @@ type Graph struct {
 }
 
 // Error reports bad input. Row and Col are 0-based and are −1 when they
-// do not apply.
+// do not apply; the message gives them 1-based, as every crease message
+// does.
 type Error struct {
 	Row, Col int
 	Reason   string
@@ -52,9 +53,9 @@ type Error struct {
 func (e *Error) Error() string {
 	switch {
 	case e.Row >= 0 && e.Col >= 0:
-		return fmt.Sprintf("knn: row %d, column %d: %s", e.Row, e.Col, e.Reason)
+		return fmt.Sprintf("knn: row %d, column %d: %s", e.Row+1, e.Col+1, e.Reason)
 	case e.Row >= 0:
-		return fmt.Sprintf("knn: row %d: %s", e.Row, e.Reason)
+		return fmt.Sprintf("knn: row %d: %s", e.Row+1, e.Reason)
 	}
 	return "knn: " + e.Reason
 }

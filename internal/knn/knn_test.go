@@ -116,10 +116,10 @@ func TestSearchErrors(t *testing.T) {
 		want string
 	}{
 		{"nil", nil, 1, "knn: nil matrix"},
-		{"nan", nan, 1, "knn: row 1, column 1: non-finite value NaN"},
-		{"inf", mat.NewDense(1, 1, []float64{math.Inf(-1)}), 1, "knn: row 0, column 0: non-finite value -Inf"},
+		{"nan", nan, 1, "knn: row 2, column 2: non-finite value NaN"},
+		{"inf", mat.NewDense(1, 1, []float64{math.Inf(-1)}), 1, "knn: row 1, column 1: non-finite value -Inf"},
 		// 1e155 squared overflows float64 (largest ≈ 1.8e308, IEEE 754).
-		{"huge", mat.NewDense(3, 1, []float64{0, 1e155, 2e155}), 1, "knn: row 1, column 0: value 1e+155 is above 1e+150, where squared distances overflow"},
+		{"huge", mat.NewDense(3, 1, []float64{0, 1e155, 2e155}), 1, "knn: row 2, column 1: value 1e+155 is above 1e+150, where squared distances overflow"},
 		{"k0", ok, 0, "knn: k = 0 out of range 1..2 for 3 points"},
 		{"kn", ok, 3, "knn: k = 3 out of range 1..2 for 3 points"},
 		{"single", mat.NewDense(1, 2, nil), 1, "knn: k = 1 out of range 1..0 for 1 points"},

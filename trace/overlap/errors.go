@@ -12,7 +12,8 @@ import (
 )
 
 // Error reports bad input to a measure. Row and Col are 0-based and are
-// −1 when they do not apply.
+// −1 when they do not apply; the message gives them 1-based, as every
+// crease message does.
 type Error struct {
 	Measure  string // e.g. "silhouette"
 	Row, Col int
@@ -22,9 +23,9 @@ type Error struct {
 func (e *Error) Error() string {
 	switch {
 	case e.Row >= 0 && e.Col >= 0:
-		return fmt.Sprintf("overlap: %s: row %d, column %d: %s", e.Measure, e.Row, e.Col, e.Reason)
+		return fmt.Sprintf("overlap: %s: row %d, column %d: %s", e.Measure, e.Row+1, e.Col+1, e.Reason)
 	case e.Row >= 0:
-		return fmt.Sprintf("overlap: %s: row %d: %s", e.Measure, e.Row, e.Reason)
+		return fmt.Sprintf("overlap: %s: row %d: %s", e.Measure, e.Row+1, e.Reason)
 	}
 	return fmt.Sprintf("overlap: %s: %s", e.Measure, e.Reason)
 }

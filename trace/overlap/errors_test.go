@@ -41,11 +41,11 @@ func TestBadInput(t *testing.T) {
 	}{
 		{"nil", nil, labels, "nil matrix", "no sample at all"},
 		{"empty", &empty, nil, "empty sample", "zero-size matrix"},
-		{"nan", nan, labels, "row 2, column 1: value NaN is not finite", "NaN cell named by row and column"},
-		{"inf", inf, labels, "row 1, column 1: value +Inf is not finite", "Inf cell named by row and column"},
+		{"nan", nan, labels, "row 3, column 2: value NaN is not finite", "NaN cell named by row and column"},
+		{"inf", inf, labels, "row 2, column 2: value +Inf is not finite", "Inf cell named by row and column"},
 		{"short labels", good, []int{0, 1, 0}, "3 labels for 4 rows", "labels of the wrong length"},
 		{"long labels", good, []int{0, 1, 0, 1, 0}, "5 labels for 4 rows", "labels of the wrong length"},
-		{"negative", good, []int{0, 1, -1, 1}, "row 2: label -1 is negative", "labels are class indices"},
+		{"negative", good, []int{0, 1, -1, 1}, "row 3: label -1 is negative", "labels are class indices"},
 		{"one class", good, []int{2, 2, 2, 2}, "only one class (2)", "overlap needs two classes"},
 	} {
 		for name, f := range measures {
@@ -88,15 +88,15 @@ func TestBadSettings(t *testing.T) {
 		{"discard", func() error { _, err := TwoNN(ctx, x, &TwoNNSettings{Discard: 1.5}); return err }, "discard fraction 1.5"},
 		{"twonn tiny", func() error { _, err := TwoNN(ctx, mat.NewDense(2, 1, []float64{0, 1}), nil); return err }, "2 rows; need at least 3"},
 		{"silhouette singletons", func() error { _, err := Silhouette(ctx, x, []int{0, 1, 2, 3}); return err }, "4 classes for 4 rows"},
-		{"not probabilities", func() error { _, err := Voronoi(x, labels, nil); return err }, "row 0: row sums to 0, not 1"},
+		{"not probabilities", func() error { _, err := Voronoi(x, labels, nil); return err }, "row 1: row sums to 0, not 1"},
 		{"label beyond width", func() error {
 			_, err := Voronoi(mat.NewDense(2, 2, []float64{0.5, 0.5, 1, 0}), []int{0, 2}, nil)
 			return err
-		}, "row 1: label 2 is not a column"},
+		}, "row 2: label 2 is not a column"},
 		{"negative probability", func() error {
 			_, err := Voronoi(mat.NewDense(2, 2, []float64{1.5, -0.5, 1, 0}), []int{0, 1}, nil)
 			return err
-		}, "row 0, column 0: value 1.5 is not a probability"},
+		}, "row 1, column 1: value 1.5 is not a probability"},
 	} {
 		t.Run(test.name, func(t *testing.T) {
 			err := test.run()
