@@ -235,6 +235,7 @@ func ReadCSV(r io.Reader, name string, set *CSVSettings) (*Sample, error) {
 	cr := csv.NewReader(&capReader{r: r, left: MaxCSVBytes})
 	cr.Comment = '#'
 	cr.TrimLeadingSpace = true
+	cr.FieldsPerRecord = -1 // counted below, to say expected and found
 	var records [][]string
 	var lines []int
 	for {
@@ -250,6 +251,9 @@ func ReadCSV(r io.Reader, name string, set *CSVSettings) (*Sample, error) {
 			return nil, fmt.Errorf("%s: %w", name, err)
 		}
 		line, _ := cr.FieldPos(0)
+		if len(records) > 0 && len(rec) != len(records[0]) {
+			return nil, fmt.Errorf("%s:%d: %d cells, expected %d as on line %d", name, line, len(rec), len(records[0]), lines[0])
+		}
 		records = append(records, rec)
 		lines = append(lines, line)
 	}
