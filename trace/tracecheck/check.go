@@ -100,3 +100,45 @@ func SoftmaxSeparates(tb testing.TB, tr *trace.Trace) bool {
 	}
 	return ok
 }
+
+// MeasureAtLeast asserts that measure name (see Stage.Value; class ""
+// for a stage measure, else that class's) is at least min at stage.
+func MeasureAtLeast(tb testing.TB, tr *trace.Trace, stage int, class, name string, min float64) bool {
+	tb.Helper()
+	if stage < 0 || stage >= len(tr.Stages) {
+		tb.Errorf("tracecheck: stage %d out of range 0..%d", stage, len(tr.Stages)-1)
+		return false
+	}
+	if class != "" && tr.Class(class) < 0 {
+		tb.Errorf("tracecheck: unknown class %q (classes: %s)", class, strings.Join(tr.Sample.Classes, ", "))
+		return false
+	}
+	s := &tr.Stages[stage]
+	v, ok := s.Value(class, name)
+	switch {
+	case !ok:
+		tb.Errorf("tracecheck: stage %d (%s) has no measure %q (measures: %s)", stage, s.Kind, name, strings.Join(tr.MeasureNames(), ", "))
+		return false
+	case v < min:
+		tb.Errorf("%s = %.4g at stage %d (%s); want at least %.4g\n\t%s: %s", name, v, stage, s.Kind, min, name, series(tr, class, name))
+		return false
+	}
+	return true
+}
+
+// SeparableBy asserts that some stage up to stage by separates the
+// classes linearly: its linear probe reaches trace.SeparableAccuracy
+// (Trace.Separation).
+func SeparableBy(tb testing.TB, tr *trace.Trace, by int) bool {
+	tb.Helper()
+	s := tr.Separation()
+	if s.FirstSeparable >= 0 && s.FirstSeparable <= by {
+		return true
+	}
+	if s.FirstSeparable < 0 {
+		tb.Errorf("no stage separates the classes linearly (probe.accuracy below %v everywhere, or the probe was not run); want one by stage %d\n\tprobe.accuracy: %s", float64(trace.SeparableAccuracy), by, series(tr, "", "probe.accuracy"))
+	} else {
+		tb.Errorf("the classes are first linearly separable at stage %d; want by stage %d\n\tprobe.accuracy: %s", s.FirstSeparable, by, series(tr, "", "probe.accuracy"))
+	}
+	return false
+}

@@ -93,6 +93,13 @@ func TestChecks(t *testing.T) {
 			[]string{"stage 3 (affine) glues 46 pairs", "glued.cross: 0:input=- 1:affine=0 2:relu=0 3:affine=46"}},
 		{"no softmax", func(tb testing.TB) bool { return tracecheck.SoftmaxSeparates(tb, tr) }, false, []string{"no softmax stage"}},
 		{"softmax separates", func(tb testing.TB) bool { return tracecheck.SoftmaxSeparates(tb, good) }, true, nil},
+		// The rings (Hatcher's circles, apart on the y-axis) are linearly
+		// separable at the input; the projection onto x mixes them.
+		{"separable by 0", func(tb testing.TB) bool { return tracecheck.SeparableBy(tb, tr, 0) }, true, nil},
+		{"knn at least", func(tb testing.TB) bool { return tracecheck.MeasureAtLeast(tb, tr, 2, "", "knn.accuracy", 1) }, true, nil},
+		{"knn falls", func(tb testing.TB) bool { return tracecheck.MeasureAtLeast(tb, tr, 3, "", "knn.accuracy", 0.9) }, false,
+			[]string{"knn.accuracy = ", "at stage 3 (affine); want at least 0.9", "knn.accuracy: 0:input=1"}},
+		{"unknown measure", func(tb testing.TB) bool { return tracecheck.MeasureAtLeast(tb, tr, 1, "", "knn.acc", 1) }, false, []string{`no measure "knn.acc"`}},
 		{"softmax mixes", func(tb testing.TB) bool { return tracecheck.SoftmaxSeparates(tb, bad) }, false,
 			[]string{`class "low"`, "inside its own Voronoi cell at stage 2 (softmax)", "voronoi.inside: 0:input=- 1:affine=- 2:softmax=0.2917"}}, // 7 of 24: the angles 225°..315°, where sin θ < −1/2
 	} {
