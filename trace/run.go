@@ -184,6 +184,13 @@ func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings)
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
+	// One memory budget for the run, shared by the tasks that run at
+	// once.
+	budget := rs.MaxBytes
+	if budget <= 0 {
+		budget = homology.DefaultMaxBytes
+	}
+	rs.taskBytes = max(budget/int64(workers), 1)
 	var (
 		mu        sync.Mutex
 		done      int
@@ -337,7 +344,12 @@ func group(ctx context.Context, g *Group, cloud *mat.Dense, idx []int, rs Settin
 	rd, err := homology.Read(ctx, pts, &homology.ReadSettings{
 		Rule: rs.Rule, MaxDim: rs.MaxDim, Alpha: rs.Alpha, Scale: rs.Scale,
 		Persistence: rs.Persistence, MaxThreshold: rs.MaxThreshold, K: min(rs.K, g.Count-1), Hops: rs.Hops,
+		MaxBytes: rs.taskBytes,
 	})
+	var me *homology.MemoryError
+	if errors.As(err, &me) {
+		return fmt.Errorf("%w: each task that runs at once has %d bytes of the run's memory budget (Settings.MaxBytes, crease trace --max-memory); raise it, or lower the workers, the per-class cap or maxdim", err, rs.taskBytes)
+	}
 	if err != nil {
 		return err
 	}

@@ -354,6 +354,14 @@ type Settings struct {
 	// Workers bounds the parallel tasks; zero means GOMAXPROCS. Not
 	// recorded in the trace (it does not change the result).
 	Workers int `json:"-"`
+	// MaxBytes is the memory budget of the run's homology, shared by the
+	// tasks that run at once (each of Workers tasks may use MaxBytes /
+	// Workers); zero means homology.DefaultMaxBytes. A task whose
+	// estimate exceeds its share fails with a *homology.MemoryError
+	// before it allocates. Not recorded in the trace.
+	MaxBytes int64 `json:"-"`
+	// taskBytes is the share of MaxBytes of one task (set by Run).
+	taskBytes int64
 	// Timing records wall times in Trace.Timing.
 	Timing bool `json:"-"`
 	// Progress, if not nil, is called after each finished task, from

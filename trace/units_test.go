@@ -6,6 +6,7 @@ package trace
 
 import (
 	"context"
+	"errors"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -14,6 +15,7 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
+	"crease.dev/crease/homology"
 	"crease.dev/crease/onnxload"
 )
 
@@ -158,5 +160,33 @@ func TestClassUnits(t *testing.T) {
 	}
 	if _, err := Run(context.Background(), stages, s, &Settings{ClassOrder: []string{"outer", "middle"}}); err == nil || !strings.Contains(err.Error(), `"inner"`) {
 		t.Errorf("an order missing a class: err = %v", err)
+	}
+}
+
+// TestRunMemoryBudget checks that the run's budget is shared by the
+// tasks that run at once: a budget too small for one task's share fails
+// with the homology's MemoryError, before allocating, and says so.
+func TestRunMemoryBudget(t *testing.T) {
+	r := rand.New(rand.NewPCG(4, 4))
+	x := mat.NewDense(200, 3, nil)
+	labels := make([]string, 200)
+	for i := range 200 {
+		for j := range 3 {
+			x.Set(i, j, r.NormFloat64())
+		}
+		labels[i] = []string{"a", "b"}[i%2]
+	}
+	s, err := NewSample(x, labels)
+	if err != nil {
+		t.Fatal(err)
+	}
+	stages := []onnxload.Stage{{Kind: onnxload.ReLU, In: 3, Out: 3, Nodes: []string{"relu"}}}
+	_, err = Run(context.Background(), stages, s, &Settings{Cap: -1, SkipProbe: true, Workers: 4, MaxBytes: 400 << 10})
+	var me *homology.MemoryError
+	if !errors.As(err, &me) || !strings.Contains(err.Error(), "each task that runs at once has 102400 bytes") {
+		t.Fatalf("err = %v, want a MemoryError naming the share of 400 KiB / 4", err)
+	}
+	if _, err := Run(context.Background(), stages, s, &Settings{Cap: -1, SkipProbe: true, Workers: 4, MaxBytes: 1 << 30}); err != nil {
+		t.Fatalf("with 1 GiB: %v", err)
 	}
 }

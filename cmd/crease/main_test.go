@@ -159,3 +159,19 @@ func TestPlainMessages(t *testing.T) {
 		t.Errorf("report of an empty file: exit %d, %q", code, errb.String())
 	}
 }
+
+func TestParseBytes(t *testing.T) {
+	for _, tc := range []struct {
+		in   string
+		want int64
+		ok   bool
+	}{
+		{"8GiB", 8 << 30, true}, {"512MiB", 512 << 20, true}, {"2GB", 2e9, true}, {"1000", 1000, true}, {"1.5KiB", 1536, true},
+		{"lots", 0, false}, {"-1GiB", 0, false}, {"0", 0, false}, {"", 0, false},
+	} {
+		got, err := parseBytes(tc.in)
+		if (err == nil) != tc.ok || got != tc.want {
+			t.Errorf("parseBytes(%q) = %d, %v; want %d (ok %v)", tc.in, got, err, tc.want, tc.ok)
+		}
+	}
+}

@@ -6,10 +6,12 @@ package main
 
 import (
 	"context"
+	"errors"
 	"flag"
 	"fmt"
 	"io"
 	"os"
+	"strconv"
 	"strings"
 
 	"golang.org/x/term"
@@ -52,6 +54,8 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 	whole := fs.Bool("whole", true, "also compute the whole sample's homology")
 	out := fs.String("out", "", "write the trace as JSON to this file (atomically)")
 	csvOut := fs.String("csv", "", "write the long CSV (stage,kind,class,measure,value) to this file")
+	maxMem := fs.String("max-memory", "", "memory budget of the homology, shared by the tasks that run at once, e.g. 8GiB (default 4GiB)")
+	workers := fs.Int("workers", 0, "tasks that run at once (default: the number of cores)")
 	timing := fs.Bool("timing", false, "record wall times in the JSON (makes it differ between runs)")
 	pos, err := parseFlags(fs, args)
 	if err != nil {
@@ -76,6 +80,12 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 	}
 	set := &trace.Settings{MaxDim: *maxDim, Alpha: *alpha, Scale: *scale, Persistence: *pers, K: *k, Hops: *hops,
 		Cap: *capN, Seed: *seed, Fuse: *fuse, SkipWhole: !*whole, GlueTau: *glueTau, SkipProbe: *skipProbe, Timing: *timing}
+	if *maxMem != "" {
+		if set.MaxBytes, err = parseBytes(*maxMem); err != nil {
+			return fmt.Errorf("--max-memory %q: %v", *maxMem, err)
+		}
+	}
+	set.Workers = *workers
 	if *classOrder != "" {
 		set.ClassOrder = strings.Split(*classOrder, ",")
 	}
@@ -190,4 +200,24 @@ func flagSet(fs *flag.FlagSet, name string) bool {
 		}
 	})
 	return found
+}
+
+// parseBytes parses a byte count such as 512MiB, 8GiB, 2GB or 1000000.
+func parseBytes(s string) (int64, error) {
+	units := []struct {
+		suffix string
+		factor float64
+	}{{"KiB", 1 << 10}, {"MiB", 1 << 20}, {"GiB", 1 << 30}, {"TiB", 1 << 40}, {"KB", 1e3}, {"MB", 1e6}, {"GB", 1e9}, {"TB", 1e12}, {"B", 1}}
+	f := 1.0
+	for _, u := range units {
+		if strings.HasSuffix(s, u.suffix) {
+			s, f = strings.TrimSuffix(s, u.suffix), u.factor
+			break
+		}
+	}
+	v, err := strconv.ParseFloat(strings.TrimSpace(s), 64)
+	if err != nil || !(v > 0) || v*f > 1<<62 {
+		return 0, errors.New("want a positive size such as 512MiB or 8GiB")
+	}
+	return int64(v * f), nil
 }
