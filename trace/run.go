@@ -190,7 +190,7 @@ func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings)
 	if budget <= 0 {
 		budget = homology.DefaultMaxBytes
 	}
-	rs.taskBytes = max(budget/int64(workers), 1)
+	taskBytes := max(budget/int64(workers), 1)
 	var (
 		mu        sync.Mutex
 		done      int
@@ -226,12 +226,12 @@ func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings)
 				case tk.group < 0:
 					part = "whole"
 					t := time.Now()
-					err = group(ctx, &st.Whole, clouds[tk.stage], nil, rs)
+					err = group(ctx, &st.Whole, clouds[tk.stage], nil, rs, taskBytes)
 					dh = time.Since(t)
 				default:
 					part = s.Classes[tk.group]
 					t := time.Now()
-					err = group(ctx, &st.Classes[tk.group], clouds[tk.stage], members[tk.group], rs)
+					err = group(ctx, &st.Classes[tk.group], clouds[tk.stage], members[tk.group], rs, taskBytes)
 					dh = time.Since(t)
 				}
 				mu.Lock()
@@ -337,18 +337,18 @@ func diameter(m *mat.Dense) float64 {
 }
 
 // group computes the barcode and Betti numbers of rows idx of cloud
-// into g by the scale rule (homology.Read).
-func group(ctx context.Context, g *Group, cloud *mat.Dense, idx []int, rs Settings) error {
+// into g by the scale rule (homology.Read), within maxBytes.
+func group(ctx context.Context, g *Group, cloud *mat.Dense, idx []int, rs Settings, maxBytes int64) error {
 	pts := rowsOf(cloud, idx)
 	diam := diameter(pts)
 	rd, err := homology.Read(ctx, pts, &homology.ReadSettings{
 		Rule: rs.Rule, MaxDim: rs.MaxDim, Alpha: rs.Alpha, Scale: rs.Scale,
 		Persistence: rs.Persistence, MaxThreshold: rs.MaxThreshold, K: min(rs.K, g.Count-1), Hops: rs.Hops,
-		MaxBytes: rs.taskBytes,
+		MaxBytes: maxBytes,
 	})
 	var me *homology.MemoryError
 	if errors.As(err, &me) {
-		return fmt.Errorf("%w: each task that runs at once has %d bytes of the run's memory budget (Settings.MaxBytes, crease trace --max-memory); raise it, or lower the workers, the per-class cap or maxdim", err, rs.taskBytes)
+		return fmt.Errorf("%w: each task that runs at once has %d bytes of the run's memory budget (Settings.MaxBytes, crease trace --max-memory); raise it, or lower the workers, the per-class cap or maxdim", err, maxBytes)
 	}
 	if err != nil {
 		return err

@@ -360,8 +360,6 @@ type Settings struct {
 	// estimate exceeds its share fails with a *homology.MemoryError
 	// before it allocates. Not recorded in the trace.
 	MaxBytes int64 `json:"-"`
-	// taskBytes is the share of MaxBytes of one task (set by Run).
-	taskBytes int64
 	// Timing records wall times in Trace.Timing.
 	Timing bool `json:"-"`
 	// Progress, if not nil, is called after each finished task, from
