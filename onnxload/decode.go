@@ -23,7 +23,11 @@ type Limits struct {
 	MaxFileBytes int64
 	// MaxElements bounds the total number of tensor elements over all
 	// initializers and constants, and the element count of any declared
-	// input or output shape. Zero means DefaultMaxElements.
+	// input or output shape. Model.Stages applies it again to the
+	// weights of all stages together (a shared initializer or a
+	// broadcast bias counts once per stage that holds it), and bounds
+	// the multiply-adds of fusing by 64 times it. Zero means
+	// DefaultMaxElements.
 	MaxElements int64
 	// MaxDim bounds any single dimension of a tensor or declared shape.
 	// Zero means DefaultMaxDim.

@@ -70,8 +70,9 @@ type builder struct {
 	// fused holds, for a node standing for a pattern (patterns), the
 	// labels of the nodes it replaces.
 	fused map[*Node][]string
-	// maxElements bounds the size of any weight matrix built.
-	maxElements int64
+	// maxElements bounds the weight elements of all stages built, and
+	// built counts them.
+	maxElements, built int64
 	// matmul marks affine stages made by a bias-free MatMul that an
 	// Add may still give a bias.
 	matmul map[int]bool
@@ -251,11 +252,19 @@ func (b *builder) constOrigins(n *Node) []string {
 }
 
 // checkSize returns a LimitError if a rows×cols weight matrix would
-// exceed MaxElements.
+// exceed MaxElements, alone or with the weights of the stages built so
+// far (a small file can reuse one large initializer, or add broadcast
+// biases that become identity matrices, many times); otherwise it counts
+// the matrix against that total.
 func (b *builder) checkSize(n *Node, i int, rows, cols int) error {
 	if int64(rows) > b.maxElements/max(int64(cols), 1) {
 		return &LimitError{Limit: "MaxElements", Where: nodeWhere(n, i) + " weight matrix", Value: int64(rows) * int64(cols), Max: b.maxElements}
 	}
+	size := int64(rows) * int64(cols)
+	if b.built+size > b.maxElements {
+		return &LimitError{Limit: "MaxElements", Where: nodeWhere(n, i) + " weight matrix, with the stages' weights before it", Value: b.built + size, Max: b.maxElements}
+	}
+	b.built += size
 	return nil
 }
 
@@ -469,6 +478,9 @@ func (b *builder) node(n *Node, i int) error {
 		if out == 0 {
 			return b.unsupported(n, i, "output width 0")
 		}
+		if err := b.checkSize(n, i, out, w); err != nil {
+			return err
+		}
 		W := mat.NewDense(out, w, nil)
 		W.Copy(mat.NewDense(w, out, wt.Float64).T())
 		b.push(n, i, Stage{Kind: Affine, In: w, Out: out, W: W, B: make([]float64, out)}, []int64{int64(out)})
@@ -600,6 +612,9 @@ func (b *builder) gemm(n *Node, i int, data *value) error {
 	}
 	if out == 0 {
 		return b.unsupported(n, i, "output width 0")
+	}
+	if err := b.checkSize(n, i, out, in); err != nil {
+		return err
 	}
 	W := mat.NewDense(out, in, nil)
 	src := mat.NewDense(r, c, bt.Float64)
@@ -853,6 +868,10 @@ func constantValue(n *Node) (*Tensor, error) {
 }
 
 // fuse merges runs of affine and reshape stages holding an affine stage.
+// fuseWork bounds the multiply-adds of fusing, in units of MaxElements
+// (ours: 64 × 64 Mi ≈ 4·10⁹, a few seconds on one core).
+const fuseWork = 64
+
 // A fused matrix above maxElements is a LimitError.
 func fuse(in []Stage, maxElements int64) ([]Stage, error) {
 	var out []Stage
@@ -889,6 +908,11 @@ func fuse(in []Stage, maxElements int64) ([]Stage, error) {
 			}
 			if _, c := W.Dims(); int64(s.Out) > maxElements/int64(c) {
 				return nil, &LimitError{Limit: "MaxElements", Where: fmt.Sprintf("fused weight matrix of %q", joinNames(names)), Value: int64(s.Out) * int64(c), Max: maxElements}
+			}
+			// The product costs Out·In·c multiply-adds: bound the work
+			// the same way, at MaxElements × fuseWork.
+			if _, c := W.Dims(); int64(s.Out)*int64(s.In) > maxElements*fuseWork/int64(c) {
+				return nil, &LimitError{Limit: "MaxElements", Where: fmt.Sprintf("fusing %q (multiply-adds, at most MaxElements × %d)", joinNames(names), fuseWork), Value: int64(s.Out) * int64(s.In) * int64(c), Max: maxElements * fuseWork}
 			}
 			var nw mat.Dense
 			nw.Mul(s.W, W)
