@@ -20,12 +20,10 @@ import (
 // testdata/gen/betti_repro.py.
 var reproDir = filepath.Join("..", "..", "testdata", "repro")
 
-// reproSettings are those of the reproduction: H0 and H1 on the k-NN
-// hop-count metric (k = 8, Betti numbers at 2 hops), which is scale-free
-// across stages as in the paper's method, and the whole sample of 300
-// points per class.
+// reproSettings are those of the reproduction: the defaults (H0 and H1
+// read by the ratio rule) on every point, 600 per class, classes only.
 func reproSettings() *trace.Settings {
-	return &trace.Settings{MaxDim: 1, Rule: trace.ScaleHops, K: 8, Hops: 2, Cap: -1, SkipWhole: true}
+	return &trace.Settings{Cap: -1, SkipWhole: true}
 }
 
 // summed returns, per stage, the Betti numbers summed over classes and

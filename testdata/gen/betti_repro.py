@@ -45,9 +45,9 @@ import numpy as np
 import torch
 import torch.nn as nn
 
-TUBE = 0.2          # tube radius of every ring
+TUBE = 0.05        # tube radius of every ring: thin enough that the rings lie apart by several sampling spacings
 SHIFT = 1.3         # centres of the two "ends" rings on the x-axis
-PER_CLASS = 300     # sample points per class
+PER_CLASS = 600     # sample points per class
 SEED = 20260502
 WIDTH, DEPTH = 10, 6
 OUT = os.path.join("testdata", "repro")
