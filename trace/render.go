@@ -115,6 +115,20 @@ func writePlot(w io.Writer, p *plot.Plot, width, height vg.Length) error {
 	return err
 }
 
+// writePanels draws the plots one above the other on c, their data
+// areas aligned.
+func writePanels(c draw.Canvas, ps ...*plot.Plot) {
+	rows := make([][]*plot.Plot, len(ps))
+	for i, p := range ps {
+		rows[i] = []*plot.Plot{p}
+	}
+	tiles := draw.Tiles{Rows: len(ps), Cols: 1, PadY: vg.Points(6)}
+	canvases := plot.Align(rows, tiles, c)
+	for i, p := range ps {
+		p.Draw(canvases[i][0])
+	}
+}
+
 // WriteBettiSVG writes an SVG line plot of the Betti number βdim of
 // every class (solid, in class colours) and of the whole sample (dashed
 // grey, when recorded) across the stages. It returns an error if dim is
@@ -228,14 +242,76 @@ func (t *Trace) WriteCollapseSVG(w io.Writer) error {
 	}
 
 	c := vgsvg.New(plotWidth, 2*plotHeight)
-	dc := draw.New(c)
-	tiles := draw.Tiles{Rows: 2, Cols: 1, PadY: vg.Points(6)}
-	plots := [][]*plot.Plot{{top}, {bottom}}
-	canvases := plot.Align(plots, tiles, dc)
-	top.Draw(canvases[0][0])
-	bottom.Draw(canvases[1][0])
+	writePanels(draw.New(c), top, bottom)
 	_, err := c.WriteTo(w)
 	return err
+}
+
+// WriteSeparationSVG writes an SVG plot of how well the classes are
+// apart at each stage: on top the stage measures knn.accuracy,
+// probe.accuracy and, on softmax stages, voronoi.inside; below, each
+// class's knn.accuracy. Stages where a measure is undefined have no
+// point. It returns an error if no stage has a separation measure.
+func (t *Trace) WriteSeparationSVG(w io.Writer) error {
+	top := t.newStagePlot("How well the classes are apart", "accuracy (fraction)")
+	names := []struct{ key, label string }{
+		{"knn.accuracy", "k-NN accuracy"},
+		{"probe.accuracy", "linear-probe accuracy"},
+		{"voronoi.inside", "inside own Voronoi cell"},
+	}
+	n := 0
+	for k, nm := range names {
+		var xy plotter.XYs
+		for i := range t.Stages {
+			if v, ok := t.Stages[i].Measures[nm.key]; ok {
+				xy = append(xy, plotter.XY{X: float64(i), Y: v})
+			}
+		}
+		n += len(xy)
+		if err := addSeries(top, nm.label, xy, palette[k%len(palette)], false, k); err != nil {
+			return err
+		}
+	}
+	if n == 0 {
+		return fmt.Errorf("trace: render: no stage has a separation measure")
+	}
+	// Headroom above 1 keeps the legend (top right) off the data.
+	top.Y.Min, top.Y.Max = 0, 1.45
+
+	bottom := t.newStagePlot("k-NN accuracy of each class", "accuracy (fraction)")
+	for c, name := range t.Sample.Classes {
+		var xy plotter.XYs
+		for i := range t.Stages {
+			if c < len(t.Stages[i].Classes) {
+				if v, ok := t.Stages[i].Classes[c].Measures["knn.accuracy"]; ok {
+					xy = append(xy, plotter.XY{X: float64(i), Y: v})
+				}
+			}
+		}
+		if err := addSeries(bottom, name, xy, palette[c%len(palette)], false, c); err != nil {
+			return err
+		}
+	}
+	bottom.Y.Min, bottom.Y.Max = 0, 1.1+0.12*float64(len(t.Sample.Classes))
+	top.Y.Tick.Marker = unitTicks{}
+	bottom.Y.Tick.Marker = unitTicks{}
+
+	c := vgsvg.New(plotWidth, 2*plotHeight)
+	writePanels(draw.New(c), top, bottom)
+	_, err := c.WriteTo(w)
+	return err
+}
+
+// unitTicks marks 0, 0.25, …, 1 only, whatever the axis' headroom.
+type unitTicks struct{}
+
+// Ticks implements plot.Ticker.
+func (unitTicks) Ticks(min, max float64) []plot.Tick {
+	var ts []plot.Tick
+	for v := 0.0; v <= 1; v += 0.25 {
+		ts = append(ts, plot.Tick{Value: v, Label: strconv.FormatFloat(v, 'g', -1, 64)})
+	}
+	return ts
 }
 
 // WriteBarcodeSVG writes an SVG barcode of one group at stage i: class

@@ -29,7 +29,7 @@ func ExampleTrace_WriteHTML() {
 	fmt.Println("scripts:", strings.Count(b.String(), "<script"))
 	// Output:
 	// stages: 4
-	// plots: 7
+	// plots: 8
 	// scripts: 0
 }
 

@@ -112,6 +112,13 @@ svg{max-width:100%;height:auto}
 			return err
 		}
 	}
+	if hasSeparation(t) {
+		b.WriteString("<h2>Separation across stages</h2>\n")
+		fmt.Fprintf(&b, "<p>%s.</p>\n", e(t.Separation().String()))
+		if err := figure(&b, "Leave-one-out k-NN accuracy, 5-fold linear-probe accuracy and, at softmax stages, the share of points inside their own class's Voronoi cell (top); each class's k-NN accuracy (bottom).", t.WriteSeparationSVG); err != nil {
+			return err
+		}
+	}
 	b.WriteString("<h2>Barcodes</h2>\n")
 	for i := range t.Stages {
 		s := &t.Stages[i]
@@ -190,4 +197,16 @@ func yesNo(v bool) string {
 		return "and stays so to the output"
 	}
 	return "but not at every later stage"
+}
+
+// hasSeparation reports whether some stage has a separation measure.
+func hasSeparation(t *Trace) bool {
+	for i := range t.Stages {
+		for _, k := range []string{"knn.accuracy", "probe.accuracy", "voronoi.inside"} {
+			if _, ok := t.Stages[i].Measures[k]; ok {
+				return true
+			}
+		}
+	}
+	return false
 }

@@ -125,8 +125,8 @@ func TestRenderErrors(t *testing.T) {
 }
 
 // TestRenderHTML checks that the report is self-contained: one inline
-// SVG per plot (β₀, β₁, collapse, a barcode per stage), no script and no
-// reference to anything outside the page.
+// SVG per plot (β₀, β₁, collapse, separation, a barcode per stage), no
+// script and no reference to anything outside the page.
 func TestRenderHTML(t *testing.T) {
 	tr := renderTrace(t)
 	page := tr.HTML()
@@ -134,7 +134,7 @@ func TestRenderHTML(t *testing.T) {
 		t.Fatalf("report does not start with a doctype: %.40q", page)
 	}
 	body := strings.TrimPrefix(page, "<!DOCTYPE html>\n")
-	want := (tr.Settings.MaxDim + 1) + 1 + len(tr.Stages)
+	want := (tr.Settings.MaxDim + 1) + 1 + 1 + len(tr.Stages)
 	if n := wellFormed(t, "report", []byte(body), "svg"); n != want {
 		t.Errorf("report has %d <svg> elements, want %d", n, want)
 	}

@@ -38,8 +38,8 @@ func TestDemoAndReport(t *testing.T) {
 		t.Fatal(err)
 	}
 	// The demo traces classes only, so each of the 7 stages has 3 barcodes.
-	if n := bytes.Count(page, []byte("<svg")); n != 2+1+7*3 {
-		t.Errorf("report has %d plots, want 24 (β0, β1, collapse, 21 barcodes)", n)
+	if n := bytes.Count(page, []byte("<svg")); n != 2+1+1+7*3 {
+		t.Errorf("report has %d plots, want 25 (β0, β1, collapse, separation, 21 barcodes)", n)
 	}
 
 	bad := filepath.Join(dir, "bad.json")
