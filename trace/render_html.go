@@ -72,7 +72,7 @@ svg{max-width:100%;height:auto}
 	for _, c := range t.Sample.Classes {
 		fmt.Fprintf(&b, "<th>%s</th>", e(c))
 	}
-	b.WriteString("<th>glued within</th><th>glued across</th></tr>\n")
+	b.WriteString("<th>glued within</th><th>glued cross</th></tr>\n")
 	for i := range t.Stages {
 		s := &t.Stages[i]
 		fmt.Fprintf(&b, "<tr><td>%d</td><td class=\"l\">%s</td><td>%d</td><td>%s</td>", s.Index, e(s.Kind), s.Width, s.Whole.BettiString())
