@@ -29,14 +29,7 @@ func BenchmarkRun(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	m, err := onnxload.Open("../testdata/onnx/digits.onnx", nil)
-	if err != nil {
-		b.Fatal(err)
-	}
-	stages, err := m.Stages(nil)
-	if err != nil {
-		b.Fatal(err)
-	}
+	stages := digitsStages(b)
 	for _, bc := range []struct {
 		name string
 		cap  int
@@ -67,14 +60,7 @@ func BenchmarkRun(b *testing.B) {
 //
 //	go test ./trace -run - -bench RunTenClassesH2 -benchtime 1x
 func BenchmarkRunTenClassesH2(b *testing.B) {
-	m, err := onnxload.Open("../testdata/onnx/digits.onnx", nil)
-	if err != nil {
-		b.Fatal(err)
-	}
-	stages, err := m.Stages(nil)
-	if err != nil {
-		b.Fatal(err)
-	}
+	stages := digitsStages(b)
 	all := spaces.All()
 	const per = 400
 	x := mat.NewDense(10*per, 64, nil)
@@ -111,4 +97,17 @@ func BenchmarkRunTenClassesH2(b *testing.B) {
 			}
 		})
 	}
+}
+
+// digitsStages returns the stages of the digits model.
+func digitsStages(b *testing.B) []onnxload.Stage {
+	m, err := onnxload.Open("../testdata/onnx/digits.onnx", nil)
+	if err != nil {
+		b.Fatal(err)
+	}
+	stages, err := m.Stages(nil)
+	if err != nil {
+		b.Fatal(err)
+	}
+	return stages
 }

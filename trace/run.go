@@ -51,14 +51,8 @@ func RunFile(ctx context.Context, path string, s *Sample, set *Settings) (*Trace
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
-	if s != nil && s.X != nil && len(stages) > 0 {
-		if _, w := s.X.Dims(); w != stages[0].In {
-			src := s.Source
-			if src == "" {
-				src = "the sample"
-			}
-			return nil, fmt.Errorf("trace: %s has %d feature columns but %s takes inputs of width %d", src, w, path, stages[0].In)
-		}
+	if err := checkWidth(s, stages, path); err != nil {
+		return nil, err
 	}
 	t, err := Run(ctx, stages, s, set)
 	if t != nil {
@@ -99,10 +93,10 @@ func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings)
 		return nil, err
 	}
 	s = s.Cap(rs.Cap, rs.Seed)
-	n, width := s.X.Dims()
-	if len(stages) > 0 && stages[0].In != width {
-		return nil, fmt.Errorf("trace: the data has %d feature columns but the model's input width is %d", width, stages[0].In)
+	if err := checkWidth(s, stages, "the model"); err != nil {
+		return nil, err
 	}
+	n, width := s.X.Dims()
 	var timing Timing
 	t0 := time.Now()
 	acts, err := onnxload.Forward(ctx, stages, s.X, &onnxload.ForwardSettings{Workers: rs.Workers})
@@ -285,6 +279,22 @@ func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings)
 		return tr, err
 	}
 	return tr, nil
+}
+
+// checkWidth reports a sample whose width differs from the input width
+// of stages, naming the sample's source and the model.
+func checkWidth(s *Sample, stages []onnxload.Stage, model string) error {
+	if s == nil || s.X == nil || len(stages) == 0 {
+		return nil
+	}
+	if _, w := s.X.Dims(); w != stages[0].In {
+		src := s.Source
+		if src == "" {
+			src = "the sample"
+		}
+		return fmt.Errorf("trace: %s has %d feature columns but %s takes inputs of width %d", src, w, model, stages[0].In)
+	}
+	return nil
 }
 
 // checkFinite reports the first NaN or ±Inf in m, or the first value

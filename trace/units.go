@@ -58,6 +58,10 @@ func matchUnits(classes []string, labels []int, out *mat.Dense, order []string) 
 		return m, nil
 	}
 	units := make([]int, k)
+	pred := make([]int, len(labels)) // the model's predicted unit per row
+	for i := range labels {
+		pred[i] = argmax(out.RawRowView(i))
+	}
 	switch {
 	case len(order) > 0:
 		if len(order) != k {
@@ -86,7 +90,7 @@ func matchUnits(classes []string, labels []int, out *mat.Dense, order []string) 
 			agree[c] = make([]float64, w)
 		}
 		for i, l := range labels {
-			agree[l][argmax(out.RawRowView(i))]++
+			agree[l][pred[i]]++
 		}
 		copy(units, maxAssignment(agree))
 		m.Source = UnitsInferred
@@ -94,7 +98,7 @@ func matchUnits(classes []string, labels []int, out *mat.Dense, order []string) 
 	m.Units = units
 	hit := 0
 	for i, l := range labels {
-		if argmax(out.RawRowView(i)) == units[l] {
+		if pred[i] == units[l] {
 			hit++
 		}
 	}

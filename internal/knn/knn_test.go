@@ -15,6 +15,8 @@ import (
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
+
+	"crease.dev/crease/homology"
 )
 
 // bruteKNN is the reference: all distances by the direct formula, sorted by
@@ -256,5 +258,13 @@ func BenchmarkSearch(b *testing.B) {
 				}
 			}
 		})
+	}
+}
+
+// TestMaxCoordinateAgrees keeps the two bounds on coordinates one value:
+// a cloud homology accepts must be one the neighbour search accepts.
+func TestMaxCoordinateAgrees(t *testing.T) {
+	if MaxCoordinate != homology.MaxCoordinate {
+		t.Errorf("knn.MaxCoordinate %g, homology.MaxCoordinate %g", MaxCoordinate, homology.MaxCoordinate)
 	}
 }
