@@ -32,6 +32,12 @@ type Limits struct {
 	// MaxDim bounds any single dimension of a tensor or declared shape.
 	// Zero means DefaultMaxDim.
 	MaxDim int64
+	// MaxNodes bounds the number of nodes of the graph, and separately
+	// the number of its initializers, its declared inputs and outputs,
+	// and the inputs, outputs and attributes of any one node. Each is
+	// counted while reading, before anything is stored for it. Zero
+	// means DefaultMaxNodes.
+	MaxNodes int64
 }
 
 // Default limits, used for zero fields of Limits.
@@ -39,10 +45,13 @@ const (
 	DefaultMaxFileBytes = 256 << 20 // 256 MiB
 	DefaultMaxElements  = 64 << 20  // 64 Mi elements (512 MiB as float64)
 	DefaultMaxDim       = 1 << 24
+	// DefaultMaxNodes is far above what an exported MLP needs (a few
+	// nodes per layer), and keeps the stage builder's work small.
+	DefaultMaxNodes = 4096
 )
 
 func (l *Limits) resolve() Limits {
-	r := Limits{DefaultMaxFileBytes, DefaultMaxElements, DefaultMaxDim}
+	r := Limits{DefaultMaxFileBytes, DefaultMaxElements, DefaultMaxDim, DefaultMaxNodes}
 	if l == nil {
 		return r
 	}
@@ -54,6 +63,9 @@ func (l *Limits) resolve() Limits {
 	}
 	if l.MaxDim > 0 {
 		r.MaxDim = l.MaxDim
+	}
+	if l.MaxNodes > 0 {
+		r.MaxNodes = l.MaxNodes
 	}
 	return r
 }
@@ -155,16 +167,57 @@ func DecodeTensor(r io.Reader, lim *Limits) (*Tensor, error) {
 	return d.tensor(data, "tensor")
 }
 
+// readAll reads r to the end, refusing more than max bytes. A regular
+// file (anything with a Stat method reporting one) is refused by its size
+// before reading and read into a buffer of that size; a stream is read
+// in chunks, so that refusing one costs at most max bytes.
 func readAll(r io.Reader, max int64) ([]byte, error) {
-	var buf bytes.Buffer
-	n, err := buf.ReadFrom(io.LimitReader(r, max+1))
-	if err != nil {
-		return nil, err
+	if st, ok := r.(interface{ Stat() (fs.FileInfo, error) }); ok {
+		if fi, err := st.Stat(); err == nil && fi.Mode().IsRegular() {
+			if fi.Size() > max {
+				return nil, &LimitError{Limit: "MaxFileBytes", Where: "file", Value: fi.Size(), Max: max}
+			}
+			var buf bytes.Buffer
+			buf.Grow(int(fi.Size()) + bytes.MinRead)
+			n, err := buf.ReadFrom(io.LimitReader(r, max+1))
+			if err != nil {
+				return nil, err
+			}
+			if n > max {
+				return nil, &LimitError{Limit: "MaxFileBytes", Where: "file", Value: n, Max: max}
+			}
+			return buf.Bytes(), nil
+		}
 	}
-	if n > max {
-		return nil, &LimitError{Limit: "MaxFileBytes", Where: "file", Value: n, Max: max}
+	if l, ok := r.(interface{ Len() int }); ok && int64(l.Len()) > max {
+		// An in-memory reader (bytes.Reader, strings.Reader) knows its length.
+		return nil, &LimitError{Limit: "MaxFileBytes", Where: "file", Value: int64(l.Len()), Max: max}
 	}
-	return buf.Bytes(), nil
+	// Chunks grow from 4 KiB to 1 MiB, so a small stream costs little
+	// and a large one few copies.
+	chunk := 4 << 10
+	var chunks [][]byte
+	var n int64
+	for {
+		c := make([]byte, chunk)
+		chunk = min(2*chunk, 1<<20)
+		k, err := io.ReadFull(r, c)
+		n += int64(k)
+		if n > max {
+			return nil, &LimitError{Limit: "MaxFileBytes", Where: "file", Value: n, Max: max}
+		}
+		chunks = append(chunks, c[:k])
+		if err == io.EOF || err == io.ErrUnexpectedEOF {
+			break
+		}
+		if err != nil {
+			return nil, err
+		}
+	}
+	if len(chunks) == 1 {
+		return chunks[0], nil
+	}
+	return bytes.Join(chunks, nil), nil
 }
 
 // decoder holds the limits and the running element count.
@@ -451,10 +504,15 @@ func (d *decoder) graph(m *Model, b []byte, header bool) error {
 	var inputs []ValueInfo
 	inits := map[string]bool{}
 	var nodeBufs [][]byte
+	var nodes, initializers [1]int64
+	var declared [2]int64
 	err := fields(b, "graph", func(f field) error {
 		var err error
 		switch f.num {
 		case 1:
+			if err = d.count(&nodes[0], "graph nodes"); err != nil {
+				return err
+			}
 			var p []byte
 			if p, err = f.msg("graph", "node"); err == nil && !header {
 				nodeBufs = append(nodeBufs, p)
@@ -462,6 +520,9 @@ func (d *decoder) graph(m *Model, b []byte, header bool) error {
 		case 2:
 			m.GraphName, err = f.str("graph", "name")
 		case 5:
+			if err = d.count(&initializers[0], "graph initializers"); err != nil {
+				return err
+			}
 			var p []byte
 			if p, err = f.msg("graph", "initializer"); err != nil {
 				return err
@@ -488,6 +549,9 @@ func (d *decoder) graph(m *Model, b []byte, header bool) error {
 			kind := "input"
 			if f.num == 12 {
 				kind = "output"
+			}
+			if err = d.count(&declared[f.num-11], "graph "+kind+"s"); err != nil {
+				return err
 			}
 			var v ValueInfo
 			if v, err = d.valueInfo(p, kind); err != nil {
@@ -649,19 +713,46 @@ func mulLimit(a, b, max int64, where string) (int64, error) {
 	return a * b, nil
 }
 
+// count adds one to *n and returns a LimitError on MaxNodes once *n
+// passes it; what names the things counted.
+func (d *decoder) count(n *int64, what string) error {
+	*n++
+	if *n > d.lim.MaxNodes {
+		return &LimitError{Limit: "MaxNodes", Where: what, Value: *n, Max: d.lim.MaxNodes}
+	}
+	return nil
+}
+
+// countElements adds k elements to the running total and returns a
+// LimitError on MaxElements once it passes the limit.
+func (d *decoder) countElements(k int64, where string) error {
+	if k > d.lim.MaxElements-d.elements {
+		return &LimitError{Limit: "MaxElements", Where: where, Value: d.elements + k, Max: d.lim.MaxElements}
+	}
+	d.elements += k
+	return nil
+}
+
 func (d *decoder) node(b []byte, index int) (*Node, error) {
 	n := &Node{}
 	pre := fmt.Sprintf("node #%d", index)
 	var attrs [][]byte
+	var ins, outs, nattrs int64
 	err := fields(b, pre, func(f field) error {
 		var err error
 		var s string
 		switch f.num {
 		case 1:
+			if err = d.count(&ins, pre+" inputs"); err != nil {
+				return err
+			}
 			if s, err = f.str(pre, "input"); err == nil {
 				n.Inputs = append(n.Inputs, s)
 			}
 		case 2:
+			if err = d.count(&outs, pre+" outputs"); err != nil {
+				return err
+			}
 			if s, err = f.str(pre, "output"); err == nil {
 				n.Outputs = append(n.Outputs, s)
 			}
@@ -670,6 +761,9 @@ func (d *decoder) node(b []byte, index int) (*Node, error) {
 		case 4:
 			n.OpType, err = f.str(pre, "op_type")
 		case 5:
+			if err = d.count(&nattrs, pre+" attributes"); err != nil {
+				return err
+			}
 			var p []byte
 			if p, err = f.msg(pre, "attribute"); err == nil {
 				attrs = append(attrs, p)
@@ -706,6 +800,7 @@ func (d *decoder) attribute(b []byte, n *Node, where string) (Attribute, error) 
 	var inferred AttrType
 	var sub string
 	var tensors [][]byte
+	var ntensors int64
 	err := fields(b, where, func(f field) error {
 		var err error
 		switch f.num {
@@ -738,18 +833,42 @@ func (d *decoder) attribute(b []byte, n *Node, where string) (Attribute, error) 
 		case 14, 15:
 			sub = "a type"
 		case 7:
+			// Lists count against MaxElements like tensor data, before
+			// they are stored.
+			k := int64(1)
+			if f.typ == protowire.BytesType {
+				k = int64(len(f.b) / 4)
+			}
+			if err = d.countElements(k, where+" attribute floats"); err != nil {
+				return err
+			}
 			a.Floats, err = appendFixed(a.Floats, f, 4, where, "attribute floats")
 			inferred = AttrFloats
 		case 8:
+			k := 1
+			if f.typ == protowire.BytesType {
+				if k, err = countVarints(f.b, where, "attribute ints"); err != nil {
+					return err
+				}
+			}
+			if err = d.countElements(int64(k), where+" attribute ints"); err != nil {
+				return err
+			}
 			a.Ints, err = appendVarints(a.Ints, f, where, "attribute ints")
 			inferred = AttrInts
 		case 9:
+			if err = d.countElements(1, where+" attribute strings"); err != nil {
+				return err
+			}
 			var s string
 			if s, err = f.str(where, "attribute strings"); err == nil {
 				a.Strings = append(a.Strings, s)
 			}
 			inferred = AttrStrings
 		case 10:
+			if err = d.count(&ntensors, where+" attribute tensors"); err != nil {
+				return err
+			}
 			var p []byte
 			if p, err = f.msg(where, "attribute tensors"); err == nil {
 				tensors = append(tensors, p)
@@ -808,43 +927,62 @@ func asUnsupported(err error, p **UnsupportedError) bool {
 	return ok
 }
 
-// tensor decodes a TensorProto. kind names the context for errors.
+// tensor decodes a TensorProto. kind names the context for errors. A
+// first pass over the fields reads the header and counts the values of
+// each typed data field; values are stored in a second pass, once the
+// count matches the dims and fits the limits, so a tensor's memory is
+// bounded by what its dims declare.
 func (d *decoder) tensor(b []byte, kind string) (*Tensor, error) {
 	t := &Tensor{}
 	var raw []byte
 	var hasRaw, external bool
-	var floats, doubles []field
-	var ints32, ints64 []field
-	var strs int
+	// counts of float_data (4), int32_data (5), int64_data (7) and
+	// double_data (10) values.
+	counts := map[protowire.Number]int64{}
 	err := fields(b, kind, func(f field) error {
 		var err error
 		switch f.num {
 		case 1:
-			t.Dims, err = appendVarints(t.Dims, f, kind, "dims")
-			if len(t.Dims) > maxRank {
+			k := 1
+			if f.typ == protowire.BytesType {
+				if k, err = countVarints(f.b, kind, "dims"); err != nil {
+					return err
+				}
+			}
+			if len(t.Dims)+k > maxRank {
 				return &UnsupportedError{Where: kind, Reason: fmt.Sprintf("tensor rank above %d", maxRank)}
 			}
+			t.Dims, err = appendVarints(t.Dims, f, kind, "dims")
 		case 2:
 			var v int32
 			v, err = f.int32(kind, "data_type")
 			t.DataType = DataType(v)
 		case 3:
 			return &UnsupportedError{Where: kind, Reason: "segmented tensors are not supported"}
-		case 4:
-			floats = append(floats, f)
-		case 5:
-			ints32 = append(ints32, f)
-		case 6:
-			strs++
-		case 7:
-			ints64 = append(ints64, f)
+		case 4, 10:
+			size := 4
+			if f.num == 10 {
+				size = 8
+			}
+			switch f.typ {
+			case protowire.BytesType:
+				counts[f.num] += int64(len(f.b) / size)
+			default:
+				counts[f.num]++
+			}
+		case 5, 7:
+			k := 1
+			if f.typ == protowire.BytesType {
+				if k, err = countVarints(f.b, kind, "int data"); err != nil {
+					return err
+				}
+			}
+			counts[f.num] += int64(k)
 		case 8:
 			t.Name, err = f.str(kind, "name")
 		case 9:
 			raw, err = f.msg(kind, "raw_data")
 			hasRaw = true
-		case 10:
-			doubles = append(doubles, f)
 		case 13:
 			external = true
 		case 14:
@@ -874,10 +1012,9 @@ func (d *decoder) tensor(b []byte, kind string) (*Tensor, error) {
 			return nil, err
 		}
 	}
-	if d.elements+n > d.lim.MaxElements {
-		return nil, &LimitError{Limit: "MaxElements", Where: kind, Value: d.elements + n, Max: d.lim.MaxElements}
+	if err := d.countElements(n, kind); err != nil {
+		return nil, err
 	}
-	d.elements += n
 	if external {
 		return nil, &UnsupportedError{Where: kind, Reason: "tensor data stored outside the file (external data) is not supported"}
 	}
@@ -887,7 +1024,6 @@ func (d *decoder) tensor(b []byte, kind string) (*Tensor, error) {
 	if !t.DataType.isFloat() && !t.DataType.isInt() {
 		return nil, &UnsupportedError{Where: kind, Reason: fmt.Sprintf("element type %v is not supported (want float32 or float64)", t.DataType)}
 	}
-	_ = strs
 	count := int(n)
 	if hasRaw {
 		size := map[DataType]int{Float: 4, Double: 8, Int32: 4, Int64: 8, Bool: 1}[t.DataType]
@@ -916,62 +1052,48 @@ func (d *decoder) tensor(b []byte, kind string) (*Tensor, error) {
 		}
 		return t, nil
 	}
-	// Typed fields: count before allocating.
-	var src []field
+	// Typed fields: the count was taken in the first pass.
+	var num protowire.Number
 	var name string
 	switch t.DataType {
 	case Float:
-		src, name = floats, "float_data"
+		num, name = 4, "float_data"
 	case Double:
-		src, name = doubles, "double_data"
+		num, name = 10, "double_data"
 	case Int32, Bool:
-		src, name = ints32, "int32_data"
+		num, name = 5, "int32_data"
 	case Int64:
-		src, name = ints64, "int64_data"
+		num, name = 7, "int64_data"
 	}
-	have := 0
-	for _, f := range src {
-		switch {
-		case f.typ != protowire.BytesType:
-			have++
-		case t.DataType == Float:
-			have += len(f.b) / 4
-		case t.DataType == Double:
-			have += len(f.b) / 8
-		default:
-			c, err := countVarints(f.b, kind, name)
-			if err != nil {
-				return nil, err
-			}
-			have += c
-		}
+	if counts[num] != n {
+		return nil, formatf(kind, "%s has %d values, dims %v need %d", name, counts[num], t.Dims, n)
 	}
-	if int64(have) != n {
-		return nil, formatf(kind, "%s has %d values, dims %v need %d", name, have, t.Dims, n)
-	}
-	switch t.DataType {
-	case Float, Double:
-		size := 4
-		if t.DataType == Double {
-			size = 8
-		}
+	if t.DataType.isFloat() {
 		t.Float64 = make([]float64, 0, count)
-		for _, f := range src {
-			if t.Float64, err = appendFixed(t.Float64, f, size, kind, name); err != nil {
-				return nil, err
-			}
-		}
-	default:
+	} else {
 		t.Int64 = make([]int64, 0, count)
-		for _, f := range src {
-			if t.Int64, err = appendVarints(t.Int64, f, kind, name); err != nil {
-				return nil, err
-			}
+	}
+	err = fields(b, kind, func(f field) error {
+		if f.num != num {
+			return nil
 		}
-		if t.DataType == Int32 || t.DataType == Bool {
-			for i, v := range t.Int64 {
-				t.Int64[i] = int64(int32(v))
-			}
+		var err error
+		switch t.DataType {
+		case Float:
+			t.Float64, err = appendFixed(t.Float64, f, 4, kind, name)
+		case Double:
+			t.Float64, err = appendFixed(t.Float64, f, 8, kind, name)
+		default:
+			t.Int64, err = appendVarints(t.Int64, f, kind, name)
+		}
+		return err
+	})
+	if err != nil {
+		return nil, err
+	}
+	if t.DataType == Int32 || t.DataType == Bool {
+		for i, v := range t.Int64 {
+			t.Int64[i] = int64(int32(v))
 		}
 	}
 	if len(t.Float64)+len(t.Int64) != count {

@@ -65,7 +65,7 @@ func (e *LimitError) Error() string {
 	if e.Where != "" {
 		w = e.Where + ": "
 	}
-	return fmt.Sprintf("onnxload: %s%d exceeds the limit %s=%d", w, e.Value, e.Limit, e.Max)
+	return fmt.Sprintf("onnxload: %s%d exceeds the limit %s=%d (onnxload.Limits.%s raises it)", w, e.Value, e.Limit, e.Max, e.Limit)
 }
 
 // nodeWhere describes node i for error messages.

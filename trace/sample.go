@@ -5,7 +5,6 @@
 package trace
 
 import (
-	"bytes"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -19,49 +18,21 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
+	"crease.dev/crease/internal/csvnum"
 	"crease.dev/crease/internal/npy"
 )
 
 // Limits of ReadCSV: a longer stream, or a longer line (/dev/zero),
-// is refused rather than read into memory.
+// is refused while it is read.
 const (
 	// MaxCSVBytes is the largest CSV input read (256 MiB).
-	MaxCSVBytes = 256 << 20
+	MaxCSVBytes = csvnum.MaxBytes
 	// MaxCSVLine is the longest line read (16 MiB).
-	MaxCSVLine = 16 << 20
+	MaxCSVLine = csvnum.MaxLine
+	// MaxCSVCells bounds the feature cells of a CSV sample (2^26, 512 MiB
+	// as float64).
+	MaxCSVCells = csvnum.MaxCells
 )
-
-// capReader reads from r and fails once more than left bytes come, or
-// a line grows longer than MaxCSVLine.
-type capReader struct {
-	r    io.Reader
-	left int64
-	line int64 // bytes since the last newline
-}
-
-func (c *capReader) Read(p []byte) (int, error) {
-	if c.left <= 0 {
-		var one [1]byte
-		if n, _ := c.r.Read(one[:]); n > 0 {
-			return 0, fmt.Errorf("input larger than %d bytes (trace.MaxCSVBytes)", MaxCSVBytes)
-		}
-		return c.r.Read(p)
-	}
-	if int64(len(p)) > c.left {
-		p = p[:c.left]
-	}
-	n, err := c.r.Read(p)
-	c.left -= int64(n)
-	if i := bytes.LastIndexByte(p[:n], '\n'); i >= 0 {
-		c.line = int64(n - 1 - i)
-	} else {
-		c.line += int64(n)
-	}
-	if c.line > MaxCSVLine {
-		return 0, fmt.Errorf("a line longer than %d bytes (trace.MaxCSVLine)", MaxCSVLine)
-	}
-	return n, err
-}
 
 // MinClassPoints is the fewest points a class may have.
 const MinClassPoints = 3
@@ -87,8 +58,8 @@ type Sample struct {
 // NewSample returns a sample of the rows of x labeled by the strings
 // labels. Classes are ordered numerically when every label is an
 // integer, else lexically. It copies x. It returns an error if the
-// lengths differ, x holds NaN or ±Inf, or a class has fewer than
-// MinClassPoints rows.
+// lengths differ, x holds NaN or ±Inf, a class has fewer than
+// MinClassPoints rows, or there are more than MaxClasses classes.
 func NewSample(x mat.Matrix, labels []string) (*Sample, error) {
 	n, d := x.Dims()
 	if n != len(labels) {
@@ -104,20 +75,19 @@ func NewSample(x mat.Matrix, labels []string) (*Sample, error) {
 			}
 		}
 	}
-	classes := classOrder(labels)
-	index := make(map[string]int, len(classes))
-	for c, name := range classes {
-		index[name] = c
-	}
-	s := &Sample{X: mat.DenseCopyOf(x), Labels: make([]int, n), Classes: classes, Rows: make([]int, n), SourceRows: n}
+	ids := make([]int32, n)
+	index := map[string]int32{}
+	var names []string
 	for i, l := range labels {
-		s.Labels[i] = index[l]
-		s.Rows[i] = i
+		id, ok := index[l]
+		if !ok {
+			id = int32(len(names))
+			index[l] = id
+			names = append(names, l)
+		}
+		ids[i] = id
 	}
-	if err := s.checkCounts(); err != nil {
-		return nil, err
-	}
-	return s, nil
+	return sampleOf(mat.DenseCopyOf(x), ids, names)
 }
 
 // NewSampleInts is NewSample with integer labels; class names are the
@@ -232,51 +202,126 @@ func ReadCSV(r io.Reader, name string, set *CSVSettings) (*Sample, error) {
 	if set == nil {
 		set = &CSVSettings{}
 	}
-	cr := csv.NewReader(&capReader{r: r, left: MaxCSVBytes})
+	switch set.Header {
+	case "yes", "no", "", "auto":
+	default:
+		return nil, fmt.Errorf("trace: header setting %q: want auto, yes or no", set.Header)
+	}
+	cr := csv.NewReader(csvnum.Reader(r, MaxCSVBytes, MaxCSVLine, "trace.MaxCSV"))
 	cr.Comment = '#'
 	cr.TrimLeadingSpace = true
 	cr.FieldsPerRecord = -1 // counted below, to say expected and found
-	var records [][]string
-	var lines []int
-	for {
+	cr.ReuseRecord = true
+	// next returns the next record and its line, or nil at the end.
+	next := func() ([]string, int, error) {
 		rec, err := cr.Read()
 		if err == io.EOF {
-			break
+			return nil, 0, nil
 		}
 		if err != nil {
 			var pe *csv.ParseError
 			if errors.As(err, &pe) {
-				return nil, fmt.Errorf("%s:%d: column %d: %v", name, pe.Line, pe.Column, pe.Err)
+				return nil, 0, fmt.Errorf("%s:%d: column %d: %v", name, pe.Line, pe.Column, pe.Err)
 			}
-			return nil, fmt.Errorf("%s: %w", name, err)
+			return nil, 0, fmt.Errorf("%s: %w", name, err)
 		}
 		line, _ := cr.FieldPos(0)
-		if len(records) > 0 && len(rec) != len(records[0]) {
-			return nil, fmt.Errorf("%s:%d: %d cells, expected %d as on line %d", name, line, len(rec), len(records[0]), lines[0])
-		}
-		records = append(records, rec)
-		lines = append(lines, line)
+		return rec, line, nil
 	}
-	if len(records) == 0 {
+	first, firstLine, err := next()
+	if err != nil {
+		return nil, err
+	}
+	if first == nil {
 		return nil, fmt.Errorf("%s: no records", name)
 	}
-	width := len(records[0])
+	first = slices.Clone(first)
+	width := len(first)
 	if width < 2 {
-		return nil, fmt.Errorf("%s:%d: need a label column and at least one feature column, found %d column(s)", name, lines[0], width)
+		return nil, fmt.Errorf("%s:%d: need a label column and at least one feature column, found %d column(s)", name, firstLine, width)
 	}
-	first := records[0]
-	if len(first) > 0 {
-		first[0] = strings.TrimPrefix(first[0], "\uFEFF")
+	first[0] = strings.TrimPrefix(first[0], "\uFEFF")
+	col, header, err := labelColumn(first, name, set)
+	if err != nil {
+		return nil, err
 	}
-	col := -1 // label column, 0-based
-	header := false
-	switch set.Header {
-	case "yes":
-		header = true
-	case "no", "", "auto":
-	default:
-		return nil, fmt.Errorf("trace: header setting %q: want auto, yes or no", set.Header)
+	// Records are parsed as they are read: eight bytes a feature cell
+	// and one class id a row, whatever the text held.
+	var data []float64
+	var ids []int32
+	index := map[string]int32{}
+	var names []string
+	add := func(rec []string, line int) error {
+		if len(data)+width-1 > MaxCSVCells {
+			return fmt.Errorf("%s:%d: more than %d feature cells (trace.MaxCSVCells)", name, line, MaxCSVCells)
+		}
+		for j, c := range rec {
+			c = strings.TrimSpace(c)
+			if j == col {
+				if c == "" {
+					return fmt.Errorf("%s:%d: column %d: empty label", name, line, j+1)
+				}
+				id, ok := index[c]
+				if !ok {
+					if len(names) == MaxClasses {
+						return fmt.Errorf("%s:%d: column %d: more than %d distinct labels (trace.MaxClasses)", name, line, j+1, MaxClasses)
+					}
+					c = strings.Clone(c) // not the record's line
+					id = int32(len(names))
+					index[c] = id
+					names = append(names, c)
+				}
+				ids = append(ids, id)
+				continue
+			}
+			v, err := strconv.ParseFloat(c, 64)
+			if err != nil {
+				return fmt.Errorf("%s:%d: column %d: %q is not a number", name, line, j+1, c)
+			}
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return fmt.Errorf("%s:%d: column %d: %q is not finite", name, line, j+1, c)
+			}
+			data = append(data, v)
+		}
+		return nil
 	}
+	if !header {
+		if err := add(first, firstLine); err != nil {
+			return nil, err
+		}
+	}
+	for {
+		rec, line, err := next()
+		if err != nil {
+			return nil, err
+		}
+		if rec == nil {
+			break
+		}
+		if len(rec) != width {
+			return nil, fmt.Errorf("%s:%d: %d cells, expected %d as on line %d", name, line, len(rec), width, firstLine)
+		}
+		if err := add(rec, line); err != nil {
+			return nil, err
+		}
+	}
+	if len(ids) == 0 {
+		return nil, fmt.Errorf("%s: no data rows", name)
+	}
+	s, err := sampleOf(mat.NewDense(len(ids), width-1, data), ids, names)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", name, err)
+	}
+	s.Source = name
+	return s, nil
+}
+
+// labelColumn returns the 0-based label column and whether the first
+// record is a header, by the rules of CSVSettings.
+func labelColumn(first []string, name string, set *CSVSettings) (col int, header bool, err error) {
+	width := len(first)
+	col = -1
+	header = set.Header == "yes"
 	if set.Label != "" && set.Header != "no" {
 		for j, h := range first {
 			if strings.TrimSpace(h) == set.Label {
@@ -284,70 +329,61 @@ func ReadCSV(r io.Reader, name string, set *CSVSettings) (*Sample, error) {
 			}
 		}
 	}
-	if col < 0 {
-		switch {
-		case set.Label == "":
-			col = width - 1
-		default:
-			k, err := strconv.Atoi(set.Label)
-			if err != nil {
-				return nil, fmt.Errorf("%s: no label column named %q (header: %s)", name, set.Label, strings.Join(first, ","))
-			}
-			if k < 1 || k > width {
-				return nil, fmt.Errorf("%s: label column %d out of range 1..%d", name, k, width)
-			}
-			col = k - 1
-		}
-		if set.Header == "" || set.Header == "auto" {
-			for j, c := range first {
-				if j == col {
-					continue
-				}
-				if _, err := strconv.ParseFloat(strings.TrimSpace(c), 64); err != nil {
-					header = true
-					break
-				}
-			}
-		}
+	if col >= 0 {
+		return col, header, nil
 	}
-	if header {
-		records, lines = records[1:], lines[1:]
-	}
-	if len(records) == 0 {
-		return nil, fmt.Errorf("%s: no data rows", name)
-	}
-	x := mat.NewDense(len(records), width-1, nil)
-	labels := make([]string, len(records))
-	for i, rec := range records {
-		if len(rec) != width {
-			return nil, fmt.Errorf("%s:%d: row has %d cells, want %d", name, lines[i], len(rec), width)
+	switch set.Label {
+	case "":
+		col = width - 1
+	default:
+		k, err := strconv.Atoi(set.Label)
+		if err != nil {
+			return 0, false, fmt.Errorf("%s: no label column named %q (header: %s)", name, set.Label, strings.Join(first, ","))
 		}
-		k := 0
-		for j, c := range rec {
-			c = strings.TrimSpace(c)
+		if k < 1 || k > width {
+			return 0, false, fmt.Errorf("%s: label column %d out of range 1..%d", name, k, width)
+		}
+		col = k - 1
+	}
+	if set.Header == "" || set.Header == "auto" {
+		for j, c := range first {
 			if j == col {
-				if c == "" {
-					return nil, fmt.Errorf("%s:%d: column %d: empty label", name, lines[i], j+1)
-				}
-				labels[i] = c
 				continue
 			}
-			v, err := strconv.ParseFloat(c, 64)
-			if err != nil {
-				return nil, fmt.Errorf("%s:%d: column %d: %q is not a number", name, lines[i], j+1, c)
+			if _, err := strconv.ParseFloat(strings.TrimSpace(c), 64); err != nil {
+				header = true
+				break
 			}
-			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return nil, fmt.Errorf("%s:%d: column %d: %q is not finite", name, lines[i], j+1, c)
-			}
-			x.Set(i, k, v)
-			k++
 		}
 	}
-	s, err := NewSample(x, labels)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", name, err)
+	return col, header, nil
+}
+
+// sampleOf returns the sample of the rows of x (kept, not copied) whose
+// labels are names[ids[i]]; the names are distinct. Classes are ordered
+// as NewSample orders them.
+func sampleOf(x *mat.Dense, ids []int32, names []string) (*Sample, error) {
+	if len(names) > MaxClasses {
+		return nil, fmt.Errorf("trace: %d classes, above the limit of %d (trace.MaxClasses)", len(names), MaxClasses)
 	}
-	s.Source = name
+	classes := classOrder(names)
+	index := make(map[string]int, len(classes))
+	for c, name := range classes {
+		index[name] = c
+	}
+	class := make([]int, len(names))
+	for id, name := range names {
+		class[id] = index[name]
+	}
+	n := len(ids)
+	s := &Sample{X: x, Labels: make([]int, n), Classes: classes, Rows: make([]int, n), SourceRows: n}
+	for i, id := range ids {
+		s.Labels[i] = class[id]
+		s.Rows[i] = i
+	}
+	if err := s.checkCounts(); err != nil {
+		return nil, err
+	}
 	return s, nil
 }
 

@@ -71,14 +71,10 @@ func readPoints(arg string, stdin io.Reader, labels, header string) (*mat.Dense,
 		}
 		return s.X, name, nil
 	}
-	rows, width, err := csvnum.Read(r, name, nil)
+	data, width, err := csvnum.Read(r, name, nil)
 	closeIn()
 	if err != nil {
 		return nil, name, err
 	}
-	x := mat.NewDense(len(rows), width, nil)
-	for i, row := range rows {
-		x.SetRow(i, row)
-	}
-	return x, name, nil
+	return mat.NewDense(len(data)/width, width, data), name, nil
 }

@@ -6,7 +6,9 @@ package csvnum
 
 import (
 	"errors"
+	"io"
 	"math"
+	"runtime"
 	"strings"
 	"testing"
 	"testing/iotest"
@@ -39,7 +41,7 @@ func TestRead(t *testing.T) {
 		{name: "only comments", in: "# x\n\n", wantEmpty: true},
 	} {
 		t.Run(test.name, func(t *testing.T) {
-			rows, w, err := Read(iotest.OneByteReader(strings.NewReader(test.in)), "t.csv", test.set)
+			data, w, err := Read(iotest.OneByteReader(strings.NewReader(test.in)), "t.csv", test.set)
 			if test.wantEmpty {
 				if !errors.Is(err, ErrEmpty) {
 					t.Fatalf("got error %v, want ErrEmpty", err)
@@ -59,8 +61,8 @@ func TestRead(t *testing.T) {
 			if err != nil {
 				t.Fatalf("unexpected error: %v", err)
 			}
-			if len(rows) != test.wantRows || w != test.wantWidth {
-				t.Fatalf("got %d rows of width %d, want %d of width %d", len(rows), w, test.wantRows, test.wantWidth)
+			if w != test.wantWidth || len(data) != test.wantRows*w {
+				t.Fatalf("got %d cells in rows of width %d, want %d rows of width %d", len(data), w, test.wantRows, test.wantWidth)
 			}
 		})
 	}
@@ -70,13 +72,100 @@ func TestReadExact(t *testing.T) {
 	t.Parallel()
 	// %.17g round-trips every float64 exactly (IEEE 754; Go strconv).
 	want := []float64{0.1, -1e-300, math.MaxFloat64, 5e-324}
-	rows, _, err := Read(strings.NewReader("0.10000000000000001,-1.0000000000000001e-300,1.7976931348623157e+308,4.9406564584124654e-324\n"), "x", nil)
+	data, _, err := Read(strings.NewReader("0.10000000000000001,-1.0000000000000001e-300,1.7976931348623157e+308,4.9406564584124654e-324\n"), "x", nil)
 	if err != nil {
 		t.Fatal(err)
 	}
 	for i, v := range want {
-		if rows[0][i] != v {
-			t.Errorf("cell %d: got %v, want %v", i, rows[0][i], v)
+		if data[i] != v {
+			t.Errorf("cell %d: got %v, want %v", i, data[i], v)
 		}
 	}
+}
+
+// endless is a stream of one repeated byte pattern that never ends, as
+// /dev/zero or `yes` give.
+type endless struct {
+	pat string
+	off int
+}
+
+func (e *endless) Read(p []byte) (int, error) {
+	for i := range p {
+		p[i] = e.pat[e.off]
+		e.off = (e.off + 1) % len(e.pat)
+	}
+	return len(p), nil
+}
+
+// TestLimits checks that an endless stream is refused while it is read,
+// by the line limit (no newline ever) or the cell limit (short rows),
+// and that Reader's byte limit names itself; each within a memory bound
+// of a small multiple of the limit that stopped it.
+func TestLimits(t *testing.T) {
+	for _, test := range []struct {
+		name string
+		r    io.Reader
+		set  *Settings
+		want string
+		// bound on the bytes allocated: the limit that stops the
+		// stream, held as text (the line) or as float64 cells, with
+		// room for the slice's growth.
+		bound uint64
+	}{
+		{name: "no newline", r: &endless{pat: "0"}, want: "csvnum.MaxLine", bound: 4 * MaxLine},
+		// 2^20 cells of one line each: 8 bytes a cell, about five times
+		// over for the slice's growth, and 16 for each line's string.
+		{name: "short rows", r: &endless{pat: "1\n"}, set: &Settings{MaxCells: 1 << 20}, want: "csvnum.MaxCells", bound: 64 << 20},
+	} {
+		t.Run(test.name, func(t *testing.T) {
+			var before, after runtime.MemStats
+			runtime.ReadMemStats(&before)
+			_, _, err := Read(test.r, "endless", test.set)
+			runtime.ReadMemStats(&after)
+			if err == nil || !strings.Contains(err.Error(), test.want) {
+				t.Fatalf("err = %v, want one naming %s", err, test.want)
+			}
+			if got := after.TotalAlloc - before.TotalAlloc; got > test.bound {
+				t.Errorf("allocated %d bytes, above the bound %d", got, test.bound)
+			}
+		})
+	}
+	_, err := io.ReadAll(Reader(&endless{pat: "1,2\n"}, 1000, 100, "trace.MaxCSV"))
+	if err == nil || !strings.Contains(err.Error(), "larger than 1000 bytes (trace.MaxCSVBytes)") {
+		t.Errorf("Reader past its byte limit: err = %v", err)
+	}
+}
+
+// FuzzRead feeds arbitrary text to Read: an error is an *Error naming a
+// 1-based line (and a column for a bad cell), ErrEmpty or a limit;
+// a table read has every row of the same width and only finite cells.
+func FuzzRead(f *testing.F) {
+	for _, s := range []string{"1,2\n3,4\n", "# c\n\n1\n", "\uFEFF1e308,-0\n", "1,,2\n", "NaN\n", "1,2\n3\n", " 0x1p-2 , 5e-324\r\n"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, in string) {
+		data, w, err := Read(strings.NewReader(in), "f.csv", &Settings{MaxCells: 1 << 12})
+		if err != nil {
+			var e *Error
+			switch {
+			case errors.As(err, &e):
+				if e.Line < 1 || e.Column < 0 || e.Name != "f.csv" {
+					t.Fatalf("error %v: line %d column %d", err, e.Line, e.Column)
+				}
+			case errors.Is(err, ErrEmpty), strings.Contains(err.Error(), "csvnum.Max"):
+			default:
+				t.Fatalf("unexpected error %v", err)
+			}
+			return
+		}
+		if w < 1 || len(data)%w != 0 || len(data) == 0 {
+			t.Fatalf("%d cells in rows of width %d", len(data), w)
+		}
+		for _, v := range data {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				t.Fatalf("non-finite cell %v", v)
+			}
+		}
+	})
 }
