@@ -61,6 +61,18 @@ func RunFile(ctx context.Context, path string, s *Sample, set *Settings) (*Trace
 	return t, err
 }
 
+// MaxProbeWork bounds the linear probe's work per gradient evaluation,
+// rows × classes × (width + 1 + probeExpCost), at the widest stage; a
+// run above it leaves the probe out, with a note in Trace.Notes. 2^24
+// keeps a 784→512→256→10 MLP at the default cap (1200 rows: 9.5·10⁶)
+// and refuses 1000 classes of 3 points (3.9·10⁷, once 55 s of probing).
+const MaxProbeWork = 1 << 24
+
+// probeExpCost is the cost of one exponential in multiply-adds, about
+// ten (measured here: math.Exp takes about ten times a multiply-add in
+// gonum's Dgemm).
+const probeExpCost = 10
+
 // task is one unit of parallel work: a group's homology (group ≥ 0 is a
 // class, −1 the whole sample) or a stage's measures (measures true).
 type task struct {
@@ -92,11 +104,31 @@ func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings)
 	if err := s.checkCounts(); err != nil {
 		return nil, err
 	}
+	if len(stages)+1 > MaxStages {
+		return nil, fmt.Errorf("trace: the model has %d stages, above the limit of %d with the input (trace.MaxStages)", len(stages), MaxStages)
+	}
+	if len(s.Classes) > MaxClasses {
+		return nil, fmt.Errorf("trace: %d classes, above the limit of %d (trace.MaxClasses)", len(s.Classes), MaxClasses)
+	}
 	s = s.Cap(rs.Cap, rs.Seed)
 	if err := checkWidth(s, stages, "the model"); err != nil {
 		return nil, err
 	}
 	n, width := s.X.Dims()
+	var notes []string
+	if !rs.SkipProbe {
+		// The probe's cost per gradient grows with rows × classes ×
+		// (width + 1 + probeExpCost); past MaxProbeWork it would
+		// dominate the run, so it is left out.
+		wmax := width
+		for i := range stages {
+			wmax = max(wmax, stages[i].Out)
+		}
+		if work := float64(n) * float64(len(s.Classes)) * float64(wmax+1+probeExpCost); work > MaxProbeWork {
+			rs.SkipProbe = true
+			notes = append(notes, fmt.Sprintf("linear probe left out: %d rows × %d classes at width %d is above trace.MaxProbeWork; lower the per-class cap to include it", n, len(s.Classes), wmax))
+		}
+	}
 	var timing Timing
 	t0 := time.Now()
 	acts, err := onnxload.Forward(ctx, stages, s.X, &onnxload.ForwardSettings{Workers: rs.Workers})
@@ -134,6 +166,7 @@ func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings)
 			Classes: s.Classes, Indices: s.Rows, Labels: s.Labels, Units: um,
 		},
 		Stages: make([]Stage, len(clouds)),
+		Notes:  notes,
 	}
 	tr.Settings.Workers, tr.Settings.Timing, tr.Settings.Progress = 0, false, nil
 	members := make([][]int, len(s.Classes))

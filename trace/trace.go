@@ -43,6 +43,9 @@ type Trace struct {
 	// Timing holds wall times of the parts of the run; nil unless
 	// Settings.Timing was set.
 	Timing *Timing `json:"timing,omitempty"`
+	// Notes say what the run left out that the settings asked for, and
+	// why (such as a linear probe too large to fit).
+	Notes []string `json:"notes,omitempty"`
 }
 
 // ModelInfo identifies a model file.

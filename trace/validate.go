@@ -13,16 +13,17 @@ import (
 	"math"
 )
 
-// Limits of ReadJSON: a trace larger than these is refused, so that a
-// small hostile file cannot make compare or report run for long or
-// write a huge report.
+// Limits of Run and ReadJSON: a model, sample or trace larger than these
+// is refused, so that a small hostile file cannot make a run, compare or
+// report take long or write a huge report.
 const (
 	// MaxJSONBytes is the largest trace file read (1 GiB).
 	MaxJSONBytes = 1 << 30
-	// MaxStages is the most stages a trace may record.
-	MaxStages = 10000
-	// MaxClasses is the most classes a trace may record.
-	MaxClasses = 10000
+	// MaxStages is the most stages a trace may record, the input
+	// included (a deep MLP has a few hundred).
+	MaxStages = 1024
+	// MaxClasses is the most classes a sample or trace may hold.
+	MaxClasses = 1000
 	// MaxTraceBars is the most bars a trace may hold over all its
 	// groups and stages.
 	MaxTraceBars = 50_000_000

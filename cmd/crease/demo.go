@@ -45,6 +45,7 @@ func runDemo(ctx context.Context, args []string, stdin io.Reader, stdout, stderr
 	fmt.Fprintln(stdout, "classed clear / near / contact by the clearance to a disc obstacle; 300 points per class.")
 	fmt.Fprintln(stdout, "Betti numbers are (β0,β1) read by the ratio rule; \"?\" marks a dimension the sample cannot decide; glued = pairs a stage brings together.")
 	set := demo.Settings()
+	var outs []output
 	for i, name := range demo.Models {
 		info, err := demo.TrainingOf(name)
 		if err != nil {
@@ -61,15 +62,18 @@ func runDemo(ctx context.Context, args []string, stdin io.Reader, stdout, stderr
 		fmt.Fprintf(stdout, "verdict on %s: %s.\n", name, demo.Judge(tr).String(tr))
 		fmt.Fprintf(stdout, "separation on %s: %s.\n", name, tr.Separation())
 		if *dir != "" {
-			path := filepath.Join(*dir, name+".json")
-			if err := writeFileAtomic(path, tr.WriteJSON); err != nil {
-				return fmt.Errorf("%s: %w", path, err)
-			}
-			fmt.Fprintf(stderr, "crease demo: wrote %s\n", path)
+			outs = append(outs, output{filepath.Join(*dir, name+".json"), tr.WriteJSON})
 		}
 		if i == len(demo.Models)-1 {
 			fmt.Fprintln(stdout, "\ncrease diagnoses models and certifies nothing.")
 		}
+	}
+	// Both traces are committed together, once both are computed.
+	if err := writeOutputs(ctx, outs); err != nil {
+		return err
+	}
+	for _, o := range outs {
+		fmt.Fprintf(stderr, "crease demo: wrote %s\n", o.path)
 	}
 	return nil
 }

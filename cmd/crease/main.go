@@ -195,39 +195,74 @@ func pathErr(err error) error {
 	return err
 }
 
-// writeFileAtomic writes data to path through a temporary file in the
-// same directory and renames it into place, so a reader never sees a
-// partial file.
-func writeFileAtomic(path string, write func(io.Writer) error) (err error) {
-	dir := filepath.Dir(path)
-	f, err := os.CreateTemp(dir, ".crease-*.tmp")
-	if err != nil {
-		return fmt.Errorf("cannot write in %s: %v", dir, pathErr(err))
-	}
-	tmp := f.Name()
+// output is one file a command writes: its path and what to write.
+type output struct {
+	path  string
+	write func(io.Writer) error
+}
+
+// writeFileAtomic writes one file through writeOutputs.
+func writeFileAtomic(ctx context.Context, path string, write func(io.Writer) error) error {
+	return writeOutputs(ctx, []output{{path, write}})
+}
+
+// writeOutputs writes every output to a temporary file in its folder
+// and, only once all are written, synced and closed and ctx is not done,
+// renames them into place: the outputs of a run are committed together
+// or not at all, and a reader never sees a partial file. On an error, a
+// cancelled ctx (SIGINT, SIGTERM) or a panic, the temporary files are
+// removed and the files replaced are left as they were. A replaced file
+// keeps its mode; a new one gets the mode os.Create would give it (0666
+// less the umask). Errors name the output, never the temporary file.
+func writeOutputs(ctx context.Context, outs []output) (err error) {
+	var tmps []string
+	committed := false
 	defer func() {
-		if err != nil {
-			f.Close()
-			os.Remove(tmp)
+		if !committed {
+			for _, t := range tmps {
+				os.Remove(t)
+			}
 		}
 	}()
-	if err = write(f); err != nil {
+	for _, o := range outs {
+		dir := filepath.Dir(o.path)
+		f, err := os.CreateTemp(dir, ".crease-*.tmp")
+		if err != nil {
+			return fmt.Errorf("%s: cannot write in %s: %v", o.path, dir, pathErr(err))
+		}
+		tmps = append(tmps, f.Name())
+		if err := writeTemp(f, o); err != nil {
+			f.Close()
+			return fmt.Errorf("%s: %v", o.path, pathErr(err))
+		}
+	}
+	if err := ctx.Err(); err != nil {
 		return err
 	}
-	// Keep the mode of the file replaced; a new file gets the mode
-	// os.Create would give it (0666 less the umask).
+	for i, o := range outs {
+		if err := os.Rename(tmps[i], o.path); err != nil {
+			return fmt.Errorf("%s: %v", o.path, pathErr(err))
+		}
+	}
+	committed = true
+	return nil
+}
+
+// writeTemp writes o into the temporary file f, gives it its mode,
+// syncs and closes it.
+func writeTemp(f *os.File, o output) error {
+	if err := o.write(f); err != nil {
+		return err
+	}
 	mode := newFileMode()
-	if fi, err := os.Stat(path); err == nil && fi.Mode().IsRegular() {
+	if fi, err := os.Stat(o.path); err == nil && fi.Mode().IsRegular() {
 		mode = fi.Mode().Perm()
 	}
-	if err = f.Chmod(mode); err != nil {
+	if err := f.Chmod(mode); err != nil {
 		return err
 	}
-	if err = f.Sync(); err != nil {
+	if err := f.Sync(); err != nil {
 		return err
 	}
-	if err = f.Close(); err != nil {
-		return err
-	}
-	return os.Rename(tmp, path)
+	return f.Close()
 }

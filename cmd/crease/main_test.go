@@ -47,7 +47,7 @@ func TestWriteFileAtomic(t *testing.T) {
 		t.Fatal(err)
 	}
 	// A failing writer leaves the old file and no temporary behind.
-	err := writeFileAtomic(path, func(w io.Writer) error {
+	err := writeFileAtomic(context.Background(), path, func(w io.Writer) error {
 		io.WriteString(w, "partial")
 		return io.ErrUnexpectedEOF
 	})
@@ -62,7 +62,7 @@ func TestWriteFileAtomic(t *testing.T) {
 	if len(entries) != 1 {
 		t.Errorf("temporary file left behind: %v", entries)
 	}
-	if err := writeFileAtomic(path, func(w io.Writer) error { _, err := io.WriteString(w, "new"); return err }); err != nil {
+	if err := writeFileAtomic(context.Background(), path, func(w io.Writer) error { _, err := io.WriteString(w, "new"); return err }); err != nil {
 		t.Fatal(err)
 	}
 	got, _ = os.ReadFile(path)
@@ -81,14 +81,14 @@ func TestWriteFileAtomicModes(t *testing.T) {
 	}
 	os.Chmod(private, 0o600)
 	write := func(w io.Writer) error { _, err := io.WriteString(w, "new"); return err }
-	if err := writeFileAtomic(private, write); err != nil {
+	if err := writeFileAtomic(context.Background(), private, write); err != nil {
 		t.Fatal(err)
 	}
 	if fi, _ := os.Stat(private); fi.Mode().Perm() != 0o600 {
 		t.Errorf("replaced file has mode %v, want 0600 kept", fi.Mode().Perm())
 	}
 	fresh := filepath.Join(dir, "fresh.json")
-	if err := writeFileAtomic(fresh, write); err != nil {
+	if err := writeFileAtomic(context.Background(), fresh, write); err != nil {
 		t.Fatal(err)
 	}
 	ref := filepath.Join(dir, "ref")

@@ -53,8 +53,5 @@ func runReport(ctx context.Context, args []string, stdin io.Reader, stdout, stde
 	if *out == "" {
 		return tr.WriteHTML(stdout)
 	}
-	if err := writeFileAtomic(*out, tr.WriteHTML); err != nil {
-		return fmt.Errorf("%s: %w", *out, err)
-	}
-	return nil
+	return writeFileAtomic(ctx, *out, tr.WriteHTML)
 }

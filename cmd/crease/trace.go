@@ -134,17 +134,18 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 		return err
 	}
 	fmt.Fprintf(stdout, "# separation: %s\n", tr.Separation())
+	for _, note := range tr.Notes {
+		fmt.Fprintln(stdout, "# note: "+note)
+		fmt.Fprintln(stderr, "crease trace: note: "+note)
+	}
+	var outs []output
 	if *out != "" {
-		if err := writeFileAtomic(*out, tr.WriteJSON); err != nil {
-			return err
-		}
+		outs = append(outs, output{*out, tr.WriteJSON})
 	}
 	if *csvOut != "" {
-		if err := writeFileAtomic(*csvOut, tr.WriteCSV); err != nil {
-			return err
-		}
+		outs = append(outs, output{*csvOut, tr.WriteCSV})
 	}
-	return nil
+	return writeOutputs(ctx, outs)
 }
 
 // ruleText describes the scale rule of resolved settings.
