@@ -55,112 +55,192 @@ func linf(x, y Bar) float64 {
 
 func half(x Bar) float64 { return (x.Death - x.Birth) / 2 }
 
+// finiteBottleneck returns the bottleneck distance between barcodes of
+// finite bars of positive length.
+//
+// A matching of cost at most ε exists exactly when the bipartite graph
+// G_ε on A and B, with an edge where two bars lie within ε of each other
+// (L∞), has a matching that covers every bar longer than 2ε of either
+// side: the bars it leaves go to the diagonal, and the diagonal copies
+// of the matched bars pair with each other at no cost. By the
+// Mendelsohn–Dulmage theorem such a matching exists exactly when one
+// matching covers the long bars of A and another the long bars of B, so
+// each side is tested on its own, with only its long bars on the left
+// (few, near the answer, in barcodes of noisy samples). The distance is
+// one of the values the test compares with ε, so the smallest feasible ε
+// is found exactly by bisecting the float64 bit patterns between 0 and
+// the cost of sending every bar to the diagonal, without listing the
+// |A|·|B| candidate values.
 func finiteBottleneck(a, b []Bar) float64 {
 	if len(a) == 0 && len(b) == 0 {
 		return 0
 	}
-	cand := []float64{0}
+	hi := 0.0
 	for _, x := range a {
-		cand = append(cand, half(x))
-		for _, y := range b {
-			cand = append(cand, linf(x, y))
-		}
+		hi = max(hi, half(x))
 	}
 	for _, y := range b {
-		cand = append(cand, half(y))
+		hi = max(hi, half(y))
 	}
-	slices.Sort(cand)
-	cand = slices.Compact(cand)
-	m := &matcher{a: a, b: b}
-	lo, hi := 0, len(cand)-1 // cand[hi] always admits a matching
-	for lo < hi {
-		mid := (lo + hi) / 2
-		if m.perfect(cand[mid]) {
-			hi = mid
+	c := newCoverer(a, b)
+	if c.feasible(0) {
+		return 0
+	}
+	// Non-negative float64 values are ordered as their bit patterns.
+	lo, up := math.Float64bits(0), math.Float64bits(hi) // infeasible, feasible
+	for up-lo > 1 {
+		mid := lo + (up-lo)/2
+		if c.feasible(math.Float64frombits(mid)) {
+			up = mid
 		} else {
-			lo = mid + 1
+			lo = mid
 		}
 	}
-	return cand[lo]
+	return math.Float64frombits(up)
 }
 
-// matcher tests for a perfect matching in the bipartite graph whose left
-// side is A ∪ diag(B) and right side B ∪ diag(A), with the edges of
-// cost ≤ eps (diagonal to diagonal costs 0), by Hopcroft–Karp.
+// coverer tests the feasibility of a bottleneck matching at a given ε.
+type coverer struct {
+	a, b []Bar // sorted by birth
+	m    matcher
+}
+
+func newCoverer(a, b []Bar) *coverer {
+	byBirth := func(x, y Bar) int {
+		switch {
+		case x.Birth < y.Birth:
+			return -1
+		case x.Birth > y.Birth:
+			return 1
+		}
+		return 0
+	}
+	c := &coverer{a: slices.Clone(a), b: slices.Clone(b)}
+	slices.SortFunc(c.a, byBirth)
+	slices.SortFunc(c.b, byBirth)
+	return c
+}
+
+// feasible reports whether the bars can be matched at cost at most eps.
+func (c *coverer) feasible(eps float64) bool {
+	return c.m.covers(c.a, c.b, eps) && c.m.covers(c.b, c.a, eps)
+}
+
+// matcher finds, by Hopcroft–Karp, whether the bipartite graph whose left
+// side is the bars of one barcode longer than 2ε and whose right side is
+// all bars of the other, joined where they lie within ε (L∞), has a
+// matching covering the left side. Its slices are reused between tests.
 type matcher struct {
-	a, b   []Bar
+	left   []Bar
+	right  []Bar // sorted by birth
 	eps    float64
 	matchL []int
 	matchR []int
 	dist   []int
+	queue  []int
 }
 
-// neighbours calls f on the right vertices joined to left vertex u until f
-// returns true.
-func (m *matcher) neighbours(u int, f func(v int) bool) bool {
-	na, nb := len(m.a), len(m.b)
-	if u < na {
-		x := m.a[u]
-		for j, y := range m.b {
-			if linf(x, y) <= m.eps && f(j) {
+// covers reports whether the bars of from longer than 2·eps can all be
+// matched to distinct bars of to within eps; to is sorted by birth.
+func (m *matcher) covers(from, to []Bar, eps float64) bool {
+	m.left = m.left[:0]
+	for _, x := range from {
+		if half(x) > eps {
+			m.left = append(m.left, x)
+		}
+	}
+	if len(m.left) > len(to) {
+		return false
+	}
+	m.right, m.eps = to, eps
+	m.matchL = fill(m.matchL, len(m.left), -1)
+	m.matchR = fill(m.matchR, len(to), -1)
+	m.dist = fill(m.dist, len(m.left), 0)
+	matched := 0
+	// A greedy pass first: Hopcroft–Karp then only repairs.
+	for u := range m.left {
+		m.neighbours(u, func(v int) bool {
+			if m.matchR[v] < 0 {
+				m.matchL[u], m.matchR[v] = v, u
+				matched++
 				return true
 			}
+			return false
+		})
+		if m.matchL[u] < 0 && !m.anyNeighbour(u) {
+			return false // a long bar with no partner
 		}
-		return half(x) <= m.eps && f(nb+u)
 	}
-	j := u - na
-	if half(m.b[j]) <= m.eps && f(j) {
-		return true
+	for matched < len(m.left) && m.bfs() {
+		for u := range m.left {
+			if m.matchL[u] < 0 && m.dfs(u) {
+				matched++
+			}
+		}
 	}
-	for i := 0; i < na; i++ {
-		if f(nb + i) {
+	return matched == len(m.left)
+}
+
+// fill returns s resized to n with every element v.
+func fill(s []int, n, v int) []int {
+	if cap(s) < n {
+		s = make([]int, n)
+	}
+	s = s[:n]
+	for i := range s {
+		s[i] = v
+	}
+	return s
+}
+
+// neighbours calls f on the right bars within eps of left bar u, in
+// order of birth, until f returns true.
+func (m *matcher) neighbours(u int, f func(v int) bool) bool {
+	x := m.left[u]
+	// The birth window is widened to 2ε so that rounding cannot hide a
+	// partner; linf decides.
+	lo := x.Birth - 2*m.eps
+	hi := x.Birth + 2*m.eps
+	j, _ := slices.BinarySearchFunc(m.right, lo, func(y Bar, t float64) int {
+		if y.Birth < t {
+			return -1
+		}
+		return 1
+	})
+	for ; j < len(m.right) && m.right[j].Birth <= hi; j++ {
+		if linf(x, m.right[j]) <= m.eps && f(j) {
 			return true
 		}
 	}
 	return false
 }
 
-func (m *matcher) perfect(eps float64) bool {
-	m.eps = eps
-	n := len(m.a) + len(m.b)
-	m.matchL = make([]int, n)
-	m.matchR = make([]int, n)
-	m.dist = make([]int, n)
-	for i := range m.matchL {
-		m.matchL[i], m.matchR[i] = -1, -1
-	}
-	matched := 0
-	for m.bfs() {
-		for u := 0; u < n; u++ {
-			if m.matchL[u] < 0 && m.dfs(u) {
-				matched++
-			}
-		}
-	}
-	return matched == n
+// anyNeighbour reports whether left bar u has a partner at all.
+func (m *matcher) anyNeighbour(u int) bool {
+	return m.neighbours(u, func(int) bool { return true })
 }
 
 func (m *matcher) bfs() bool {
 	const inf = math.MaxInt
-	queue := make([]int, 0, len(m.matchL))
-	for u := range m.matchL {
+	m.queue = m.queue[:0]
+	for u := range m.left {
 		if m.matchL[u] < 0 {
 			m.dist[u] = 0
-			queue = append(queue, u)
+			m.queue = append(m.queue, u)
 		} else {
 			m.dist[u] = inf
 		}
 	}
 	found := false
-	for q := 0; q < len(queue); q++ {
-		u := queue[q]
+	for q := 0; q < len(m.queue); q++ {
+		u := m.queue[q]
 		m.neighbours(u, func(v int) bool {
 			w := m.matchR[v]
 			if w < 0 {
 				found = true
 			} else if m.dist[w] == inf {
 				m.dist[w] = m.dist[u] + 1
-				queue = append(queue, w)
+				m.queue = append(m.queue, w)
 			}
 			return false
 		})
