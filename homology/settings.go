@@ -145,7 +145,7 @@ type MemoryError struct {
 
 // Error names the estimate and the budget and suggests remedies.
 func (e *MemoryError) Error() string {
-	return fmt.Sprintf("homology: %s needs about %s, over the budget of %s for %d points; "+
+	return fmt.Sprintf("homology: %s: about %s needed, over the budget of %s for %d points; "+
 		"subsample with Landmarks (crease barcode --landmarks M), lower the threshold, "+
 		"lower the maximal dimension, or raise the memory budget",
 		e.What, fmtBytes(e.Estimate), fmtBytes(e.Budget), e.Points)

@@ -167,6 +167,14 @@ func DecodeTensor(r io.Reader, lim *Limits) (*Tensor, error) {
 	return d.tensor(data, "tensor")
 }
 
+// isTagByte reports whether b can start a protobuf field tag: a field
+// number of at least 1 and a wire type other than the groups' (3, 4) and
+// the undefined 6 and 7.
+func isTagByte(b byte) bool {
+	wt := b & 7
+	return (wt <= 2 || wt == 5) && (b&0x80 != 0 || b>>3 != 0)
+}
+
 // readAll reads r to the end, refusing more than max bytes. A regular
 // file (anything with a Stat method reporting one) is refused by its size
 // before reading and read into a buffer of that size; a stream is read
@@ -205,6 +213,11 @@ func readAll(r io.Reader, max int64) ([]byte, error) {
 		n += int64(k)
 		if n > max {
 			return nil, &LimitError{Limit: "MaxFileBytes", Where: "file", Value: n, Max: max}
+		}
+		if len(chunks) == 0 && k > 0 && !isTagByte(c[0]) {
+			// A stream that does not start with a protobuf field tag
+			// (/dev/zero, a text file) is refused before it is read on.
+			return nil, &FormatError{Where: "file", Reason: fmt.Sprintf("first byte %#02x is not a protobuf field tag: not an ONNX file", c[0])}
 		}
 		chunks = append(chunks, c[:k])
 		if err == io.EOF || err == io.ErrUnexpectedEOF {

@@ -276,10 +276,10 @@ func ReadCSV(r io.Reader, name string, set *CSVSettings) (*Sample, error) {
 			}
 			v, err := strconv.ParseFloat(c, 64)
 			if err != nil {
-				return fmt.Errorf("%s:%d: column %d: %q is not a number", name, line, j+1, c)
+				return fmt.Errorf("%s:%d: column %d: %s is not a number", name, line, j+1, csvnum.QuoteCell(c))
 			}
 			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return fmt.Errorf("%s:%d: column %d: %q is not finite", name, line, j+1, c)
+				return fmt.Errorf("%s:%d: column %d: %s is not finite", name, line, j+1, csvnum.QuoteCell(c))
 			}
 			data = append(data, v)
 		}

@@ -5,11 +5,13 @@
 package trace
 
 import (
+	"bufio"
 	"bytes"
 	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"math"
 )
 
@@ -17,8 +19,10 @@ import (
 // is refused, so that a small hostile file cannot make a run, compare or
 // report take long or write a huge report.
 const (
-	// MaxJSONBytes is the largest trace file read (1 GiB).
-	MaxJSONBytes = 1 << 30
+	// MaxJSONBytes is the largest trace file read (256 MiB, the limit
+	// of a model file and of a CSV sample too; a trace of 10^5 points
+	// at ten stages takes about 50 MB).
+	MaxJSONBytes = 256 << 20
 	// MaxStages is the most stages a trace may record, the input
 	// included (a deep MLP has a few hundred).
 	MaxStages = 1024
@@ -26,20 +30,85 @@ const (
 	MaxClasses = 1000
 	// MaxTraceBars is the most bars a trace may hold over all its
 	// groups and stages.
-	MaxTraceBars = 50_000_000
+	MaxTraceBars = 10_000_000
 )
 
-// readJSONBytes reads at most MaxJSONBytes of r.
+// readJSONBytes reads at most MaxJSONBytes of r. A regular file larger
+// than that is refused before it is read (its size comes from Stat), and
+// input whose first byte other than white space is not '{' (a device, a
+// binary file) is refused before the rest is read, so neither a huge
+// file nor an endless stream costs memory.
 func readJSONBytes(r io.Reader) ([]byte, error) {
+	tooBig := fmt.Errorf("trace: the file is larger than %d bytes (MaxJSONBytes)", MaxJSONBytes)
 	var buf bytes.Buffer
-	n, err := io.Copy(&buf, io.LimitReader(r, MaxJSONBytes+1))
-	if err != nil {
-		return nil, fmt.Errorf("trace: %w", err)
+	sized := false // the size is known and the buffer holds it
+	if s, ok := r.(interface{ Stat() (fs.FileInfo, error) }); ok {
+		if fi, err := s.Stat(); err == nil && fi.Mode().IsRegular() {
+			if fi.Size() > MaxJSONBytes {
+				return nil, tooBig
+			}
+			buf.Grow(int(fi.Size()) + bytes.MinRead)
+			sized = true
+		}
 	}
-	if n > MaxJSONBytes {
-		return nil, fmt.Errorf("trace: the file is larger than %d bytes (MaxJSONBytes)", MaxJSONBytes)
+	br := bufio.NewReader(io.LimitReader(r, MaxJSONBytes+1))
+	for {
+		c, err := br.ReadByte()
+		if err == io.EOF {
+			return buf.Bytes(), nil
+		}
+		if err != nil {
+			return nil, fmt.Errorf("trace: %w", err)
+		}
+		buf.WriteByte(c)
+		if !isJSONSpace(c) {
+			if c != '{' {
+				data := buf.Bytes()
+				return nil, atOffset(data, int64(len(data)), fmt.Errorf("byte %q where a trace starts with '{'", c))
+			}
+			break
+		}
+		if buf.Len() > maxLeadingSpace {
+			return nil, fmt.Errorf("trace: no '{' in the first %d bytes, only white space", maxLeadingSpace)
+		}
 	}
-	return buf.Bytes(), nil
+	if sized {
+		if _, err := br.WriteTo(&buf); err != nil {
+			return nil, fmt.Errorf("trace: %w", err)
+		}
+		if buf.Len() > MaxJSONBytes {
+			return nil, tooBig
+		}
+		return buf.Bytes(), nil
+	}
+	// A stream is read in chunks of 1 MiB, so refusing one costs at most
+	// MaxJSONBytes, and joined once it has ended.
+	chunks := [][]byte{bytes.Clone(buf.Bytes())}
+	n := buf.Len()
+	for {
+		c := make([]byte, 1<<20)
+		k, err := io.ReadFull(br, c)
+		n += k
+		if n > MaxJSONBytes {
+			return nil, tooBig
+		}
+		chunks = append(chunks, c[:k])
+		if err == io.EOF || err == io.ErrUnexpectedEOF {
+			break
+		}
+		if err != nil {
+			return nil, fmt.Errorf("trace: %w", err)
+		}
+	}
+	return bytes.Join(chunks, nil), nil
+}
+
+// maxLeadingSpace is the most white space read before a trace's '{'.
+const maxLeadingSpace = 64 << 10
+
+// isJSONSpace reports whether c is white space in JSON.
+func isJSONSpace(c byte) bool {
+	return c == ' ' || c == '\t' || c == '\n' || c == '\r'
 }
 
 // jsonError adds the line and column of a decoding error's offset.
@@ -53,9 +122,17 @@ func jsonError(data []byte, err error) error {
 	case errors.As(err, &te):
 		off = te.Offset
 	}
-	if off < 0 || off > int64(len(data)) {
+	return atOffset(data, off, err)
+}
+
+// atOffset adds to err the line and column of the byte that ends the
+// first off bytes of data (the offsets of encoding/json count the bytes
+// read, the offending one included).
+func atOffset(data []byte, off int64, err error) error {
+	if off <= 0 || off > int64(len(data)) {
 		return fmt.Errorf("trace: %w", err)
 	}
+	off--
 	line := 1 + bytes.Count(data[:off], []byte{'\n'})
 	col := int(off) - bytes.LastIndexByte(data[:off], '\n')
 	return fmt.Errorf("trace: line %d, column %d: %w", line, col, err)

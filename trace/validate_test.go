@@ -8,6 +8,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"io"
 	"strings"
 	"testing"
 
@@ -78,4 +79,34 @@ func TestReadJSONHostile(t *testing.T) {
 			}
 		})
 	}
+}
+
+// TestReadJSONPosition checks the line and column of decoding errors
+// (1-based, at the offending byte) and that input not starting with '{'
+// is refused at its first byte, before the rest is read (an endless
+// stream of NUL bytes, as /dev/zero gives, ends at once).
+func TestReadJSONPosition(t *testing.T) {
+	for _, tc := range []struct {
+		name string
+		in   io.Reader
+		want string
+	}{
+		{"double comma", strings.NewReader("{\n \"schema\": 1,,\n}"), "line 2, column 14: invalid character ','"},
+		{"bad first byte", strings.NewReader("  \n x"), "line 2, column 2: byte 'x' where a trace starts with '{'"},
+		{"NUL stream", endlessNUL{}, "line 1, column 1: byte '\\x00'"},
+		{"wrong type", strings.NewReader("{\"schema\": \"one\"}"), "line 1, column 16: json: cannot unmarshal string"},
+	} {
+		_, err := trace.ReadJSON(tc.in)
+		if err == nil || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%s: err = %v, want %q", tc.name, err, tc.want)
+		}
+	}
+}
+
+// endlessNUL reads as NUL bytes forever.
+type endlessNUL struct{}
+
+func (endlessNUL) Read(p []byte) (int, error) {
+	clear(p)
+	return len(p), nil
 }

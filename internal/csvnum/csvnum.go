@@ -61,13 +61,15 @@ type capReader struct {
 	maxLine   int64
 	line      int64 // bytes since the last newline
 	what      string
+	err       error // the limit error, once returned
 }
 
 func (c *capReader) Read(p []byte) (int, error) {
 	if c.left <= 0 {
 		var one [1]byte
 		if n, _ := c.r.Read(one[:]); n > 0 {
-			return 0, fmt.Errorf("input larger than %d bytes (%sBytes)", c.max, c.what)
+			c.err = fmt.Errorf("input larger than %d bytes (%sBytes)", c.max, c.what)
+			return 0, c.err
 		}
 		return c.r.Read(p)
 	}
@@ -82,7 +84,8 @@ func (c *capReader) Read(p []byte) (int, error) {
 		c.line += int64(n)
 	}
 	if c.line > c.maxLine {
-		return 0, fmt.Errorf("a line longer than %d bytes (%sLine)", c.maxLine, c.what)
+		c.err = fmt.Errorf("a line longer than %d bytes (%sLine)", c.maxLine, c.what)
+		return 0, c.err
 	}
 	return n, err
 }
@@ -109,13 +112,19 @@ func Read(r io.Reader, name string, set *Settings) ([]float64, int, error) {
 	if maxCells <= 0 {
 		maxCells = MaxCells
 	}
-	sc := bufio.NewScanner(Reader(r, MaxBytes, MaxLine, "csvnum.Max"))
+	cr := &capReader{r: r, left: MaxBytes, max: MaxBytes, maxLine: MaxLine, what: "csvnum.Max"}
+	sc := bufio.NewScanner(cr)
 	sc.Buffer(make([]byte, 64*1024), MaxLine+1)
 	var data []float64
 	width := -1
 	line := 0
 	for sc.Scan() {
 		line++
+		if cr.err != nil {
+			// The scanner hands out the partial line before the limit
+			// error; that line was cut and is not parsed.
+			return nil, 0, fmt.Errorf("%s:%d: %w", name, line, cr.err)
+		}
 		text := strings.TrimSpace(sc.Text())
 		if line == 1 {
 			text = strings.TrimPrefix(text, "\uFEFF")
@@ -139,10 +148,10 @@ func Read(r io.Reader, name string, set *Settings) ([]float64, int, error) {
 			f = strings.TrimSpace(f)
 			v, err := strconv.ParseFloat(f, 64)
 			if err != nil {
-				return nil, 0, &Error{Name: name, Line: line, Column: j + 1, Reason: fmt.Sprintf("%q is not a number", f)}
+				return nil, 0, &Error{Name: name, Line: line, Column: j + 1, Reason: fmt.Sprintf("%s is not a number", QuoteCell(f))}
 			}
 			if !set.AllowNonFinite && (math.IsNaN(v) || math.IsInf(v, 0)) {
-				return nil, 0, &Error{Name: name, Line: line, Column: j + 1, Reason: fmt.Sprintf("%q is not finite", f)}
+				return nil, 0, &Error{Name: name, Line: line, Column: j + 1, Reason: fmt.Sprintf("%s is not finite", QuoteCell(f))}
 			}
 			data = append(data, v)
 		}
@@ -154,4 +163,14 @@ func Read(r io.Reader, name string, set *Settings) ([]float64, int, error) {
 		return nil, 0, fmt.Errorf("%s: %w", name, ErrEmpty)
 	}
 	return data, width, nil
+}
+
+// QuoteCell quotes a cell for an error message, cut to its first 40
+// bytes when longer.
+func QuoteCell(f string) string {
+	const most = 40
+	if len(f) <= most {
+		return strconv.Quote(f)
+	}
+	return fmt.Sprintf("%q… (%d bytes)", f[:most], len(f))
 }
