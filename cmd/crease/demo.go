@@ -10,7 +10,7 @@ import (
 	"io"
 	"path/filepath"
 
-	"crease.dev/crease/internal/demo"
+	"crease.dev/crease/cmd/crease/internal/demo"
 )
 
 func init() {

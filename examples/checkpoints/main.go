@@ -31,9 +31,9 @@ func main() {
 func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	fs := flag.NewFlagSet("checkpoints", flag.ContinueOnError)
 	fs.SetOutput(stderr)
-	a := fs.String("a", "internal/demo/data/arm_wide.onnx", "first checkpoint")
-	b := fs.String("b", "internal/demo/data/arm_narrow.onnx", "second checkpoint")
-	data := fs.String("data", "internal/demo/data/arm.csv", "labeled sample (CSV, label column \"class\")")
+	a := fs.String("a", "cmd/crease/internal/demo/data/arm_wide.onnx", "first checkpoint")
+	b := fs.String("b", "cmd/crease/internal/demo/data/arm_narrow.onnx", "second checkpoint")
+	data := fs.String("data", "cmd/crease/internal/demo/data/arm.csv", "labeled sample (CSV, label column \"class\")")
 	tol := fs.Float64("tol", 0.05, "largest bottleneck distance or measure change that is not a divergence")
 	if err := fs.Parse(args); err != nil {
 		return 2

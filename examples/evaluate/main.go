@@ -33,8 +33,8 @@ func main() {
 func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	fs := flag.NewFlagSet("evaluate", flag.ContinueOnError)
 	fs.SetOutput(stderr)
-	model := fs.String("model", "internal/demo/data/arm_wide.onnx", "ONNX model")
-	data := fs.String("data", "internal/demo/data/arm.csv", "labeled sample (CSV)")
+	model := fs.String("model", "cmd/crease/internal/demo/data/arm_wide.onnx", "ONNX model")
+	data := fs.String("data", "cmd/crease/internal/demo/data/arm.csv", "labeled sample (CSV)")
 	labels := fs.String("labels", "class", "label column")
 	glueBefore := fs.Int("glue-before", 3, "no cross-class gluing at stages 1 .. this−1")
 	simpleBy := fs.Int("simple-by", -1, "every class simple at some stage up to this one (negative: last stage)")

@@ -16,7 +16,7 @@ import (
 // the narrow one's 2-unit first layer glues classes at stage 1, so the
 // evaluation fails (status 1). A missing model is bad input (status 2).
 func TestEvaluate(t *testing.T) {
-	const dir = "../../internal/demo/data/"
+	const dir = "../../cmd/crease/internal/demo/data/"
 	for _, tc := range []struct {
 		name  string
 		model string

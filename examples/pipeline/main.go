@@ -21,7 +21,7 @@ import (
 )
 
 func main() {
-	tr, err := logitsTrace(context.Background(), "internal/demo/data/")
+	tr, err := logitsTrace(context.Background(), "cmd/crease/internal/demo/data/")
 	if err != nil {
 		fmt.Fprintln(os.Stderr, "pipeline:", err)
 		os.Exit(2)

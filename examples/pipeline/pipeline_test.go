@@ -18,11 +18,11 @@ import (
 //
 // Why these hold for the shipped model: its input classes are bands on
 // the torus of joint angles (β = (1,1), (1,1), (2,2); checked against
-// GUDHI in internal/demo), the 16-unit layers are wide enough to embed
+// GUDHI in cmd/crease/internal/demo), the 16-unit layers are wide enough to embed
 // them without identifying points of different classes, and a
 // classifier's logits for one class fill a connected, hole-free region.
 func TestArmPipeline(t *testing.T) {
-	tr, err := logitsTrace(t.Context(), "../../internal/demo/data/")
+	tr, err := logitsTrace(t.Context(), "../../cmd/crease/internal/demo/data/")
 	if err != nil {
 		t.Fatal(err)
 	}

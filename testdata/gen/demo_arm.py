@@ -9,7 +9,7 @@ Run from the repository root with Debian's interpreter:
 
     /usr/bin/python3 testdata/gen/demo_arm.py
 
-It writes into internal/demo/data/:
+It writes into cmd/crease/internal/demo/data/:
 
     arm.csv              the labeled demo sample (header cos1,sin1,cos2,sin2,class)
     arm.json             scenario parameters, per-class region topology, versions
@@ -65,7 +65,7 @@ PER_CLASS = 300                     # demo sample: points per class
 CANDIDATES = 6000                   # uniform candidates per class before farthest-point selection
 TRAIN_N = 30000                     # training configurations (uniform on the torus)
 SEED = 20260501
-OUT = os.path.join("internal", "demo", "data")
+OUT = os.path.join("cmd", "crease", "internal", "demo", "data")
 
 
 def seg_dist(a, b, c):

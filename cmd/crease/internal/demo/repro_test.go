@@ -18,7 +18,7 @@ import (
 
 // reproDir holds the data and models of the reproduction, made by
 // testdata/gen/betti_repro.py.
-var reproDir = filepath.Join("..", "..", "testdata", "repro")
+var reproDir = filepath.Join("..", "..", "..", "..", "testdata", "repro")
 
 // reproSettings are those of the reproduction: the defaults (H0 and H1
 // read by the ratio rule) on every point, 600 per class, classes only.
