@@ -8,7 +8,7 @@
 # testdata/homology/bench and the settings of issue 3's calibration table,
 # in one run, and prints one table row per case:
 #
-#   crease     the whole `crease barcode CLOUD --maxdim D [--threshold T]`
+#   crease     the whole `crease barcode CLOUD --top-dim D [--stop-at T]`
 #              process (CSV parse, distances, barcode, printing)
 #   gudhi-rips RipsComplex(points, max_edge_length=T)
 #              .create_simplex_tree(max_dimension=D+1).persistence(2, 0)
@@ -33,7 +33,7 @@
 # SLOW (default 60: a program whose run took longer than SLOW seconds is
 # not run again for that case), MODES (default "rips ec": the GUDHI paths
 # to time; empty times crease alone), CREASE_FLAGS (extra flags for
-# crease barcode, e.g. --collapse).
+# crease barcode, e.g. --edge-collapse).
 set -euo pipefail
 cd "$(dirname "$0")/.."
 
@@ -167,15 +167,15 @@ for c in "${cases[@]}"; do
 	read -r name file maxdim thr <<<"$c"
 	[[ $name =~ $FILTER ]] || continue
 	key=${name//\//_}
-	args=(barcode "$DATA/$file" --maxdim "$maxdim")
-	if [ "$thr" != 0 ]; then args+=(--threshold "$thr"); fi
+	args=(barcode "$DATA/$file" --top-dim "$maxdim")
+	if [ "$thr" != 0 ]; then args+=(--stop-at "$thr"); fi
 	# shellcheck disable=SC2206 # split the extra flags on purpose
 	args+=($CREASE_FLAGS)
 	for _ in $(seq "$RUNS"); do
 		timed "$key.crease" "$tmp/crease" "${args[@]}"
 		if slow "$key.crease"; then break; fi
 	done
-	crease_counts=$(awk -v m="$maxdim" -F'\t' '$3=="inf" || $3-$2>1e-9 {n[$1]++} END {s=""; for(d=0;d<=m;d++) s=s (d?" ":"") (n[d]+0); print s}' "$tmp/out")
+	crease_counts=$(awk -v m="$maxdim" -F'\t' 'NR>1 && ($3=="inf" || $3-$2>1e-9) {n[$1]++} END {s=""; for(d=0;d<=m;d++) s=s (d?" ":"") (n[d]+0); print s}' "$tmp/out")
 	read -r cw cc cr cs <<<"$(summary "$key.crease")"
 	row="| $name | $(cell "$cw" "$cc" "$cr" "$cs")"
 	ratios=""

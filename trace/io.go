@@ -44,12 +44,13 @@ func ReadJSON(r io.Reader) (*Trace, error) {
 	}
 	dec := json.NewDecoder(bytes.NewReader(data))
 	dec.DisallowUnknownFields()
-	var t Trace
-	if err := dec.Decode(&t); err != nil {
+	var w traceWire
+	if err := dec.Decode(&w); err != nil {
 		return nil, jsonError(data, err)
 	}
-	if t.Schema != SchemaVersion {
-		return nil, fmt.Errorf("trace: schema version %d, this build reads %d", t.Schema, SchemaVersion)
+	t := *w.trace()
+	if t.Schema != SchemaVersion && t.Schema != 1 {
+		return nil, fmt.Errorf("trace: schema version %d, this build reads 1 and %d", t.Schema, SchemaVersion)
 	}
 	if err := t.validate(); err != nil {
 		return nil, err
@@ -208,4 +209,50 @@ func (t *Trace) String() string {
 	var b strings.Builder
 	t.WriteTable(&b)
 	return b.String()
+}
+
+// settingsV1 holds the settings keys of schema version 1, read for one
+// release beside the current ones.
+type settingsV1 struct {
+	MaxDim       *int     `json:"maxdim"`
+	Scale        *float64 `json:"scale"`
+	Persistence  *float64 `json:"persistence"`
+	MaxThreshold *float64 `json:"max_threshold"`
+	K            *int     `json:"k"`
+	Cap          *int     `json:"cap"`
+}
+
+// traceWire is a Trace as ReadJSON decodes it: its settings may use
+// the keys of schema version 1. (The Settings field, shallower than the
+// embedded one, takes its key.)
+type traceWire struct {
+	tracePlain
+	Settings struct {
+		settingsPlain
+		settingsV1
+	} `json:"settings"`
+}
+
+type (
+	tracePlain    Trace
+	settingsPlain Settings
+)
+
+// trace returns the decoded trace, old settings keys moved to their
+// current fields.
+func (w *traceWire) trace() *Trace {
+	t := Trace(w.tracePlain)
+	t.Settings = Settings(w.Settings.settingsPlain)
+	s, old := &t.Settings, &w.Settings.settingsV1
+	for _, f := range []struct{ from, to *int }{{old.MaxDim, &s.MaxDim}, {old.K, &s.K}, {old.Cap, &s.Cap}} {
+		if f.from != nil {
+			*f.to = *f.from
+		}
+	}
+	for _, f := range []struct{ from, to *float64 }{{old.Scale, &s.Scale}, {old.Persistence, &s.Persistence}, {old.MaxThreshold, &s.MaxThreshold}} {
+		if f.from != nil {
+			*f.to = *f.from
+		}
+	}
+	return &t
 }

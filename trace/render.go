@@ -185,7 +185,7 @@ func (intTicks) Ticks(min, max float64) []plot.Tick {
 
 // WriteCollapseSVG writes an SVG plot of the collapse measures across the
 // stages after the input: the pairs of points glued within a class and
-// across classes (log scale, plotted as count + 1) and, on a second axis
+// cross (different classes) (log scale, plotted as count + 1) and, on a second axis
 // set below, the fractions of points that ReLU-type stages leave
 // untouched, send to a face, or send to the origin (fold.untouched,
 // fold.face, fold.origin). It returns an error if the trace has fewer
@@ -204,10 +204,10 @@ func (t *Trace) WriteCollapseSVG(w io.Writer) error {
 			cross = append(cross, plotter.XY{X: float64(i), Y: float64(g.Cross) + 1})
 		}
 	}
-	if err := addSeries(top, "within a class", within, palette[0], false, 0); err != nil {
+	if err := addSeries(top, "glued within (same class)", within, palette[0], false, 0); err != nil {
 		return err
 	}
-	if err := addSeries(top, "across classes", cross, palette[1], false, 1); err != nil {
+	if err := addSeries(top, "glued cross (different classes)", cross, palette[1], false, 1); err != nil {
 		return err
 	}
 	top.Y.Min = 1

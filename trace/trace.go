@@ -15,7 +15,11 @@ import (
 
 // SchemaVersion is the version of the JSON layout written by WriteJSON.
 // It changes only when a field is renamed or removed or changes meaning.
-const SchemaVersion = 1
+// Version 2 renamed settings keys (maxdim, scale, persistence,
+// max_threshold, k, cap became top_dim, scale_fraction,
+// persistence_fraction, stop_at_fraction, graph_k, per_class_cap);
+// ReadJSON reads version 1 too.
+const SchemaVersion = 2
 
 // InputKind is the Kind of stage 0, the sample itself.
 const InputKind = "input"
@@ -303,7 +307,7 @@ const (
 type Settings struct {
 	// MaxDim is the highest homology dimension, 1..3, or H0Only; zero
 	// means DefaultMaxDim.
-	MaxDim int `json:"maxdim"`
+	MaxDim int `json:"top_dim"`
 	// Rule is the scale rule; the zero value is ScaleRatio.
 	Rule ScaleRule `json:"rule"`
 	// Alpha is the family-wise significance level of ScaleRatio; zero
@@ -311,23 +315,23 @@ type Settings struct {
 	Alpha float64 `json:"alpha"`
 	// Scale is the relative scale of ScaleRelative; zero means
 	// DefaultScale.
-	Scale float64 `json:"scale"`
+	Scale float64 `json:"scale_fraction"`
 	// Persistence is the relative persistence of ScalePersistence; zero
 	// means DefaultPersistence.
-	Persistence float64 `json:"persistence"`
+	Persistence float64 `json:"persistence_fraction"`
 	// MaxThreshold, if positive, caps the barcode threshold of
 	// ScalePersistence at MaxThreshold × diameter; zero means the
 	// enclosing radius.
-	MaxThreshold float64 `json:"max_threshold,omitempty"`
+	MaxThreshold float64 `json:"stop_at_fraction,omitempty"`
 	// K is the neighbour count of ScaleHops; zero means DefaultK
 	// (reduced to count−1 for small groups).
-	K int `json:"k"`
+	K int `json:"graph_k"`
 	// Hops is the hop-count scale of ScaleHops; zero means DefaultHops.
 	Hops int `json:"hops"`
 	// Cap is the per-class cap: Run first keeps at most Cap rows of each
 	// class, chosen by Sample.Cap with Seed. Zero means DefaultCap,
 	// negative means no cap.
-	Cap int `json:"cap"`
+	Cap int `json:"per_class_cap"`
 	// Seed seeds the subsampling and every randomised measure; zero
 	// means DefaultSeed.
 	Seed uint64 `json:"seed"`

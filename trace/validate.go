@@ -144,7 +144,7 @@ func (t *Trace) validate() error {
 	s := &t.Settings
 	switch {
 	case s.MaxDim < 0 || s.MaxDim > 3:
-		return fmt.Errorf("trace: settings.maxdim %d outside 0..3", s.MaxDim)
+		return fmt.Errorf("trace: settings.top_dim %d outside 0..3", s.MaxDim)
 	case len(t.Stages) > MaxStages:
 		return fmt.Errorf("trace: %d stages, above the limit of %d (MaxStages)", len(t.Stages), MaxStages)
 	case len(t.Sample.Classes) > MaxClasses:

@@ -40,7 +40,7 @@ func TestReadJSONHostile(t *testing.T) {
 			m["stages"].([]any)[1].(map[string]any)["glued"].(map[string]any)["within"] = -5
 		}, "do not add up"},
 		{"negative betti", func(m map[string]any) { whole(m)["betti"].([]any)[0] = -9223372036854775808 }, "betti[0] = -9223372036854775808 is negative"},
-		{"maxdim", func(m map[string]any) { m["settings"].(map[string]any)["maxdim"] = 100000 }, "maxdim 100000"},
+		{"top_dim", func(m map[string]any) { m["settings"].(map[string]any)["top_dim"] = 100000 }, "top_dim 100000"},
 		{"bad bar", func(m map[string]any) { whole(m)["bars"].([]any)[0].([]any)[0] = []any{3, 1} }, "is not a bar"},
 		{"label out of range", func(m map[string]any) { m["sample"].(map[string]any)["labels"].([]any)[0] = 7 }, "sample.labels[0] = 7"},
 		{"negative count", func(m map[string]any) { whole(m)["count"] = -1 }, "count -1"},
@@ -65,7 +65,7 @@ func TestReadJSONHostile(t *testing.T) {
 		name, old, new, want string
 	}{
 		{"syntax", `"stages": [`, `"stages": [}`, "line "},
-		{"type", `"maxdim": 1`, `"maxdim": "one"`, ""},
+		{"type", `"top_dim": 1`, `"top_dim": "one"`, ""},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			bad := strings.Replace(good, tc.old, tc.new, 1)
@@ -109,4 +109,42 @@ type endlessNUL struct{}
 func (endlessNUL) Read(p []byte) (int, error) {
 	clear(p)
 	return len(p), nil
+}
+
+// TestReadJSONSchema1 checks that a trace of schema version 1, whose
+// settings keys were renamed in version 2, reads back to the same
+// settings.
+func TestReadJSONSchema1(t *testing.T) {
+	tr := circleTrace(t)
+	var buf bytes.Buffer
+	if err := tr.WriteJSON(&buf); err != nil {
+		t.Fatal(err)
+	}
+	var m map[string]any
+	if err := json.Unmarshal(buf.Bytes(), &m); err != nil {
+		t.Fatal(err)
+	}
+	m["schema"] = 1
+	set := m["settings"].(map[string]any)
+	for old, new := range map[string]string{"maxdim": "top_dim", "scale": "scale_fraction", "persistence": "persistence_fraction", "k": "graph_k", "cap": "per_class_cap"} {
+		v, ok := set[new]
+		if !ok {
+			t.Fatalf("no settings.%s in a version 2 trace", new)
+		}
+		set[old] = v
+		delete(set, new)
+	}
+	v1, err := json.Marshal(m)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got, err := trace.ReadJSON(bytes.NewReader(v1))
+	if err != nil {
+		t.Fatalf("version 1 trace: %v", err)
+	}
+	a, b := tr.Settings, got.Settings
+	a.Progress, b.Progress = nil, nil
+	if fmt.Sprint(a) != fmt.Sprint(b) {
+		t.Errorf("settings read from version 1:\n%+v\nwant\n%+v", b, a)
+	}
 }

@@ -26,24 +26,29 @@ func init() {
 	})
 }
 
-const barcodeSynopsis = "POINTS.csv [--maxdim D] [--threshold T] [--metric euclidean|cosine|knn] [--k K] [--field P] [--landmarks M --seed S] [--collapse]"
+const barcodeSynopsis = "POINTS.csv [--top-dim D] [--stop-at T] [--metric euclidean|cosine|knn] [--graph-k K] [--prime P] [--landmarks M --seed S] [--edge-collapse]"
 
 // runBarcode reads one point per line (comma-separated; "-" is stdin) and
-// writes one bar per line: dim<TAB>birth<TAB>death, death "inf" for
-// infinite bars, numbers as %.17g, dimensions in increasing order and
-// bars in the canonical order of package homology.
+// writes a header line "dim<TAB>lo<TAB>hi" and then one bar per line:
+// its dimension, the scale at which it starts and the one at which it
+// ends ("inf" for a bar that never ends), numbers as %.17g, dimensions
+// in increasing order and bars in the canonical order of package
+// homology. lo and hi are the names the trace JSON gives a scale range.
 func runBarcode(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	fs := newFlagSet("barcode", barcodeSynopsis, stderr)
 	labelCol := fs.String("labels", "", "read the labeled CSV of crease trace and drop this label column (header name or 1-based number)")
 	headerMode := fs.String("header", "auto", "with --labels: is the first record a header: auto, yes or no")
-	maxDim := fs.Int("maxdim", 1, "highest homology dimension, 0..3")
-	threshold := fs.Float64("threshold", 0, "largest edge length; 0 means the enclosing radius")
+	maxDim := fs.Int("top-dim", 1, "highest homology dimension, 0..3")
+	threshold := fs.Float64("stop-at", 0, "the filtration stops at this edge length (the barcode's threshold); 0 means the enclosing radius")
 	metric := fs.String("metric", "euclidean", "distance: euclidean, cosine or knn (hop count on the k-NN graph)")
-	k := fs.Int("k", 0, "neighbours for --metric knn")
-	field := fs.Int("field", 2, "prime p of the coefficients Z/p")
+	k := fs.Int("graph-k", 0, "neighbours of the k-NN graph of --metric knn")
+	field := fs.Int("prime", 2, "prime p of the coefficients Z/p")
 	landmarks := fs.Int("landmarks", 0, "if > 0, compute on this many max–min landmarks")
 	seed := fs.Uint64("seed", 1, "seed of the first landmark")
-	collapse := fs.Bool("collapse", false, "edge-collapse the flag filtration first (same barcode, often much faster for H2, planar clouds or low thresholds, slower on dense clouds in higher dimensions); on by default when --maxdim is 2 or more, and for H≤1 on planar clouds or at a threshold within which at most a quarter of the pairs lie; --collapse=false turns it off")
+	collapse := fs.Bool("edge-collapse", false, "edge-collapse the flag filtration first (same barcode, often much faster for H2, planar clouds or low thresholds, slower on dense clouds in higher dimensions); on by default when --top-dim is 2 or more, and for H≤1 on planar clouds or at a threshold within which at most a quarter of the pairs lie; --edge-collapse=false turns it off")
+	for old, new := range map[string]string{"maxdim": "top-dim", "threshold": "stop-at", "k": "graph-k", "field": "prime", "collapse": "edge-collapse"} {
+		deprecate(fs, old, new, stderr)
+	}
 	pos, err := parseFlags(fs, args)
 	if err != nil {
 		return err
@@ -78,11 +83,11 @@ func runBarcode(ctx context.Context, args []string, stdin io.Reader, stdout, std
 	// Edge collapse pays off where the reduction of triangles and
 	// tetrahedra dominates (H2 and up: 600 points on S² at threshold 1.0
 	// took 1.2 s plain and 0.03 s collapsed, bench/homology.sh), and for
-	// H≤1 where collapseGate says so; --collapse or --collapse=false
+	// H≤1 where collapseGate says so; --edge-collapse or --edge-collapse=false
 	// overrides the choice.
 	useCollapse := *collapse
 	explicit := false
-	fs.Visit(func(f *flag.Flag) { explicit = explicit || f.Name == "collapse" })
+	fs.Visit(func(f *flag.Flag) { explicit = explicit || f.Name == "edge-collapse" || f.Name == "collapse" })
 	if !explicit {
 		useCollapse = *maxDim >= 2 || collapseGate(x, m, *threshold)
 	}
@@ -91,6 +96,7 @@ func runBarcode(ctx context.Context, args []string, stdin io.Reader, stdout, std
 		return fmt.Errorf("%s: %w", name, err)
 	}
 	w := bufio.NewWriter(stdout)
+	fmt.Fprintln(w, "dim\tlo\thi")
 	for d, bars := range bc.Bars {
 		for _, b := range bars {
 			death := "inf"

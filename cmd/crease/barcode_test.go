@@ -39,29 +39,32 @@ func TestBarcodeCLI(t *testing.T) {
 		name  string
 		in    string
 		args  []string
-		want  string
+		want  string // after the header line
 		match func(string) bool
+		warn  string // on stderr
 	}{
 		{name: "square", in: square, args: []string{"-"},
 			want: "0\t0\t1\n0\t0\t1\n0\t0\t1\n0\t0\tinf\n1\t1\t1.4142135623730951\n"},
-		{name: "square H0 only, flags after file", in: square, args: []string{"-", "--maxdim", "0"},
+		{name: "square H0 only, flags after file", in: square, args: []string{"-", "--top-dim", "0"},
 			want: "0\t0\t1\n0\t0\t1\n0\t0\t1\n0\t0\tinf\n"},
-		{name: "square truncated", in: square, args: []string{"-", "--threshold", "1.2"},
+		{name: "square truncated", in: square, args: []string{"-", "--stop-at", "1.2"},
 			want: "0\t0\t1\n0\t0\t1\n0\t0\t1\n0\t0\tinf\n1\t1\tinf\n"},
-		{name: "hexagon H2", in: hex.String(), args: []string{"--maxdim", "2", "-"},
+		{name: "hexagon H2", in: hex.String(), args: []string{"--top-dim", "2", "-"},
 			match: func(s string) bool {
 				lines := strings.Split(strings.TrimSpace(s), "\n")
 				return len(lines) == 8 && strings.HasPrefix(lines[6], "1\t") && strings.HasPrefix(lines[7], "2\t1.73205080756887")
 			}},
-		{name: "square collapsed", in: square, args: []string{"-", "--collapse"},
+		{name: "square collapsed", in: square, args: []string{"-", "--edge-collapse"},
 			want: "0\t0\t1\n0\t0\t1\n0\t0\t1\n0\t0\tinf\n1\t1\t1.4142135623730951\n"},
-		{name: "square collapsed truncated", in: square, args: []string{"-", "--threshold", "1.2", "--collapse"},
+		{name: "square collapsed truncated", in: square, args: []string{"-", "--stop-at", "1.2", "--edge-collapse"},
 			want: "0\t0\t1\n0\t0\t1\n0\t0\t1\n0\t0\tinf\n1\t1\tinf\n"},
-		{name: "hexagon H2 collapsed", in: hex.String(), args: []string{"--maxdim", "2", "--collapse", "-"},
+		{name: "hexagon H2 collapsed", in: hex.String(), args: []string{"--top-dim", "2", "--edge-collapse", "-"},
 			match: func(s string) bool {
 				lines := strings.Split(strings.TrimSpace(s), "\n")
 				return len(lines) == 8 && strings.HasPrefix(lines[6], "1\t1") && strings.Contains(lines[6], "\t1.73205080756887") && strings.HasPrefix(lines[7], "2\t1.73205080756887")
 			}},
+		{name: "deprecated names", in: square, args: []string{"-", "--maxdim", "0", "--threshold", "1.2"},
+			want: "0\t0\t1\n0\t0\t1\n0\t0\t1\n0\t0\tinf\n", warn: "--maxdim is deprecated; use --top-dim"},
 		{name: "landmarks", in: square, args: []string{"-", "--landmarks", "2", "--seed", "3"},
 			want: "0\t0\t1.4142135623730951\n0\t0\tinf\n"}, // max–min picks opposite corners
 	} {
@@ -70,12 +73,19 @@ func TestBarcodeCLI(t *testing.T) {
 			if code != 0 {
 				t.Fatalf("exit %d, stderr %q", code, errs)
 			}
+			body, ok := strings.CutPrefix(out, "dim\tlo\thi\n")
+			if !ok {
+				t.Errorf("no header line: %q", out)
+			}
+			if !strings.Contains(errs, test.warn) {
+				t.Errorf("stderr %q, want %q", errs, test.warn)
+			}
 			if test.match != nil {
-				if !test.match(out) {
+				if !test.match(body) {
 					t.Errorf("unexpected output:\n%s", out)
 				}
-			} else if out != test.want {
-				t.Errorf("got\n%s\nwant\n%s", out, test.want)
+			} else if body != test.want {
+				t.Errorf("got\n%s\nwant\n%s", body, test.want)
 			}
 		})
 	}
@@ -93,18 +103,19 @@ func TestBarcodeCLIBadInput(t *testing.T) {
 		// Squares of 1e155 overflow float64 (IEEE 754 ends near 1.8e308);
 		// this cloud once read as three infinite H0 bars.
 		{"overflowing squares", "0,0\n1e155,0\n2e155,0\n", []string{"-"}, "1e+155 at row 2, column 1 is above 1e+150"},
-		{"overflowing squares, collapsed", "0,0\n1e155,0\n2e155,0\n", []string{"-", "--collapse", "--threshold", "1e300"}, "above 1e+150"},
+		{"overflowing squares, collapsed", "0,0\n1e155,0\n2e155,0\n", []string{"-", "--edge-collapse", "--stop-at", "1e300"}, "above 1e+150"},
 		{"empty", "", []string{"-"}, "no data rows"},
 		{"one point", "1,2\n", []string{"-"}, "at least 2 points"},
-		{"maxdim", "0,0\n1,1\n", []string{"-", "--maxdim", "4"}, "maximal dimension 4"},
-		{"field", "0,0\n1,1\n", []string{"-", "--field", "4"}, "field 4 is not a prime"},
-		{"threshold", "0,0\n1,1\n", []string{"-", "--threshold", "-1"}, "threshold -1"},
-		{"k too big", "0,0\n1,1\n", []string{"-", "--metric", "knn", "--k", "2"}, "K < 2 points"},
+		{"maxdim", "0,0\n1,1\n", []string{"-", "--top-dim", "4"}, "maximal dimension 4"},
+		{"old name of top-dim", "0,0\n1,1\n", []string{"-", "--maxdim", "4"}, "maximal dimension 4"},
+		{"field", "0,0\n1,1\n", []string{"-", "--prime", "4"}, "field 4 is not a prime"},
+		{"threshold", "0,0\n1,1\n", []string{"-", "--stop-at", "-1"}, "threshold -1"},
+		{"k too big", "0,0\n1,1\n", []string{"-", "--metric", "knn", "--graph-k", "2"}, "K < 2 points"},
 		{"metric", "0,0\n1,1\n", []string{"-", "--metric", "manhattan"}, "unknown metric"},
 		{"no file", "", nil, "usage"},
 		{"missing file", "", []string{"/nonexistent/points.csv"}, "no such file"},
-		{"one point, collapsed at a threshold", "1,2,3\n", []string{"-", "--collapse", "--threshold", "1"}, "at least 2 points"},
-		{"zero vector, cosine collapsed", "0,0,0\n1,1,1\n", []string{"-", "--collapse", "--metric", "cosine", "--threshold", "1"}, "row 1 is the zero vector"},
+		{"one point, collapsed at a threshold", "1,2,3\n", []string{"-", "--edge-collapse", "--stop-at", "1"}, "at least 2 points"},
+		{"zero vector, cosine collapsed", "0,0,0\n1,1,1\n", []string{"-", "--edge-collapse", "--metric", "cosine", "--stop-at", "1"}, "row 1 is the zero vector"},
 	} {
 		t.Run(test.name, func(t *testing.T) {
 			code, out, errs := runBarcodeCLI(t, test.in, test.args...)
@@ -156,13 +167,13 @@ func TestBarcodeCLICollapse(t *testing.T) {
 		ran++
 		t.Run(c.Name, func(t *testing.T) {
 			file := filepath.Join("..", "..", "testdata", "homology", c.File)
-			args := []string{file, "--maxdim", strconv.Itoa(c.MaxDim), "--field", strconv.Itoa(c.Field),
-				"--threshold", strconv.FormatFloat(c.Threshold, 'g', -1, 64)}
-			code, collapsed, errs := runBarcodeCLI(t, "", append(args, "--collapse")...)
+			args := []string{file, "--top-dim", strconv.Itoa(c.MaxDim), "--prime", strconv.Itoa(c.Field),
+				"--stop-at", strconv.FormatFloat(c.Threshold, 'g', -1, 64)}
+			code, collapsed, errs := runBarcodeCLI(t, "", append(args, "--edge-collapse")...)
 			if code != 0 {
 				t.Fatalf("exit %d: %s", code, errs)
 			}
-			code, plain, errs := runBarcodeCLI(t, "", append(args, "--collapse=false")...)
+			code, plain, errs := runBarcodeCLI(t, "", append(args, "--edge-collapse=false")...)
 			if code != 0 {
 				t.Fatalf("exit %d: %s", code, errs)
 			}
@@ -170,7 +181,7 @@ func TestBarcodeCLICollapse(t *testing.T) {
 				t.Errorf("collapsed output differs from the plain one:\n%s\nplain:\n%s", collapsed, plain)
 			}
 			got := make([][][2]float64, c.MaxDim+1)
-			for _, line := range strings.Split(strings.TrimSpace(collapsed), "\n") {
+			for _, line := range strings.Split(strings.TrimSpace(collapsed), "\n")[1:] { // after the header
 				var d int
 				var birth, death float64
 				if _, err := fmt.Sscanf(strings.ReplaceAll(line, "inf", "+Inf"), "%d\t%g\t%g", &d, &birth, &death); err != nil {
@@ -214,17 +225,17 @@ func TestBarcodeCLICollapse(t *testing.T) {
 func TestBarcodeCLICollapseMetrics(t *testing.T) {
 	file := filepath.Join("..", "..", "testdata", "homology", "torus200_h2.csv")
 	for _, args := range [][]string{
-		{"--metric", "cosine", "--threshold", "0.05"},
-		{"--metric", "cosine", "--threshold", "0.05", "--maxdim", "2"},
-		{"--metric", "knn", "--k", "6", "--threshold", "3"},
-		{"--threshold", "100"}, // beyond the enclosing radius
+		{"--metric", "cosine", "--stop-at", "0.05"},
+		{"--metric", "cosine", "--stop-at", "0.05", "--top-dim", "2"},
+		{"--metric", "knn", "--graph-k", "6", "--stop-at", "3"},
+		{"--stop-at", "100"}, // beyond the enclosing radius
 	} {
 		t.Run(strings.Join(args, " "), func(t *testing.T) {
-			code, collapsed, errs := runBarcodeCLI(t, "", append([]string{file, "--collapse"}, args...)...)
+			code, collapsed, errs := runBarcodeCLI(t, "", append([]string{file, "--edge-collapse"}, args...)...)
 			if code != 0 {
 				t.Fatalf("exit %d: %s", code, errs)
 			}
-			code, plain, errs := runBarcodeCLI(t, "", append([]string{file, "--collapse=false"}, args...)...)
+			code, plain, errs := runBarcodeCLI(t, "", append([]string{file, "--edge-collapse=false"}, args...)...)
 			if code != 0 {
 				t.Fatalf("exit %d: %s", code, errs)
 			}

@@ -9,6 +9,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"strconv"
 
 	"gonum.org/v1/gonum/mat"
 
@@ -26,6 +27,46 @@ func newFlagSet(name, synopsis string, stderr io.Writer) *flag.FlagSet {
 		fs.PrintDefaults()
 	}
 	return fs
+}
+
+// deprecate registers old as a deprecated alias of the flag new, kept
+// for one release: setting it sets new and warns on warn.
+func deprecate(fs *flag.FlagSet, old, new string, warn io.Writer) {
+	fs.Var(&alias{target: fs.Lookup(new).Value, old: old, new: "--" + new, warn: warn}, old, "deprecated: use --"+new)
+}
+
+// deprecateNegation registers the boolean old as a deprecated alias of
+// the negation of the boolean flag new (--whole=false is --skip-whole).
+func deprecateNegation(fs *flag.FlagSet, old, new string, warn io.Writer) {
+	fs.Var(&alias{target: fs.Lookup(new).Value, old: old, new: "--" + new, warn: warn, negate: true}, old, "deprecated: use --"+new+" (its negation)")
+}
+
+// alias is the flag.Value of a deprecated flag name.
+type alias struct {
+	target   flag.Value
+	old, new string
+	warn     io.Writer
+	negate   bool
+}
+
+func (a *alias) String() string { return "" }
+
+func (a *alias) Set(s string) error {
+	fmt.Fprintf(a.warn, "crease: --%s is deprecated; use %s\n", a.old, a.new)
+	if a.negate {
+		b, err := strconv.ParseBool(s)
+		if err != nil {
+			return err
+		}
+		s = strconv.FormatBool(!b)
+	}
+	return a.target.Set(s)
+}
+
+// IsBoolFlag makes an alias of a boolean flag a boolean flag.
+func (a *alias) IsBoolFlag() bool {
+	b, ok := a.target.(interface{ IsBoolFlag() bool })
+	return ok && b.IsBoolFlag()
 }
 
 // parseFlags parses args with fs, allowing flags after positional

@@ -123,7 +123,7 @@ func TestForwardLabeledCSV(t *testing.T) {
 		}
 		plain.WriteString(line[:strings.LastIndexByte(line, ',')] + "\n")
 	}
-	for _, cmd := range [][]string{{"forward", digitsModel}, {"barcode", "--maxdim", "0"}} {
+	for _, cmd := range [][]string{{"forward", digitsModel}, {"barcode", "--top-dim", "0"}} {
 		var a, b, errb bytes.Buffer
 		if code := creaseMain(t.Context(), append(append([]string{}, cmd...), digitsSample, "--labels", "label"), nil, &a, &errb); code != 0 {
 			t.Fatalf("%s --labels: exit %d: %s", cmd[0], code, errb.String())

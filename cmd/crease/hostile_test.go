@@ -152,8 +152,8 @@ var hostileFiles = []hostileFile{
 	traceFile("trace_betti_min.json", false, func(t map[string]any) {
 		firstStage(t)["whole"].(map[string]any)["betti"].([]any)[0] = json.Number("-9223372036854775808")
 	}),
-	traceFile("trace_maxdim.json", false, func(t map[string]any) {
-		t["settings"].(map[string]any)["maxdim"] = 100000
+	traceFile("trace_top_dim.json", false, func(t map[string]any) {
+		t["settings"].(map[string]any)["top_dim"] = 100000
 	}),
 	bytesFile("trace_syntax.json", func() []byte { return []byte("{\n \"schema\": 1,\n \"stages\": [\n  {\"index\": 0,,}\n ]\n}\n") }),
 	traceFile("trace_bars6000_a.json", true, manyBars(6000, 1)),
@@ -255,7 +255,7 @@ var hostileCases = []hostileCase{
 
 	{name: "negative glued count", args: []string{"report", "@trace_negative_glued.json", "--out", "{t}/r.html"}, exit: 2, msg: "do not add up", maxRSS: refusalRSS, after: noFiles},
 	{name: "Betti number -2^63", args: []string{"compare", "@base.json", "@trace_betti_min.json", "--betti-tol", "0"}, exit: 2, msg: "negative", maxRSS: refusalRSS},
-	{name: "maxdim 100000", args: []string{"report", "@trace_maxdim.json", "--out", "{t}/r.html"}, exit: 2, msg: "maxdim 100000 outside 0..3", maxRSS: refusalRSS, after: noFiles},
+	{name: "top_dim 100000", args: []string{"report", "@trace_top_dim.json", "--out", "{t}/r.html"}, exit: 2, msg: "top_dim 100000 outside 0..3", maxRSS: refusalRSS, after: noFiles},
 	{name: "JSON syntax error", args: []string{"report", "@trace_syntax.json"}, exit: 2, msg: "line 4, column 15", maxRSS: refusalRSS},
 	{name: "6000-bar compare", args: []string{"compare", "@trace_bars6000_a.json", "@trace_bars6000_b.json"}, exit: 0, msg: "bottleneck", maxRSS: 400},
 
@@ -280,8 +280,8 @@ var hostileCases = []hostileCase{
 			}
 			wantFiles(t, dir, "t.json")
 		}},
-	{name: "SIGTERM during a trace", args: []string{"trace", "@mlp4.onnx", "@slow.csv", "--maxdim", "2", "--per-class-cap", "-1", "--out", "{t}/t.json", "--csv", "{t}/l.csv"}, exit: 130, msg: "interrupted", maxRSS: 2000, signal: syscall.SIGTERM, after: noFiles},
-	{name: "SIGINT during a trace", args: []string{"trace", "@mlp4.onnx", "@slow.csv", "--maxdim", "2", "--per-class-cap", "-1", "--out", "{t}/t.json"}, exit: 130, msg: "interrupted", maxRSS: 2000, signal: syscall.SIGINT, after: noFiles},
+	{name: "SIGTERM during a trace", args: []string{"trace", "@mlp4.onnx", "@slow.csv", "--top-dim", "2", "--per-class-cap", "-1", "--out", "{t}/t.json", "--csv", "{t}/l.csv"}, exit: 130, msg: "interrupted", maxRSS: 2000, signal: syscall.SIGTERM, after: noFiles},
+	{name: "SIGINT during a trace", args: []string{"trace", "@mlp4.onnx", "@slow.csv", "--top-dim", "2", "--per-class-cap", "-1", "--out", "{t}/t.json"}, exit: 130, msg: "interrupted", maxRSS: 2000, signal: syscall.SIGINT, after: noFiles},
 }
 
 func noFiles(t *testing.T, dir string) { wantFiles(t, dir) }

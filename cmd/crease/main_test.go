@@ -135,7 +135,7 @@ func TestExitStatuses(t *testing.T) {
 	var a, b bytes.Buffer
 	ca := creaseMain(context.Background(), []string{"help", "trace"}, nil, &a, &a)
 	cb := creaseMain(context.Background(), []string{"trace", "-h"}, nil, &b, &b)
-	if ca != cb || a.String() != b.String() || !strings.Contains(a.String(), "--maxdim") {
+	if ca != cb || a.String() != b.String() || !strings.Contains(a.String(), "--top-dim") || !strings.Contains(a.String(), "deprecated: use --top-dim") {
 		t.Errorf("crease help trace (exit %d, %d bytes) differs from crease trace -h (exit %d, %d bytes)", ca, a.Len(), cb, b.Len())
 	}
 }

@@ -27,7 +27,7 @@ func init() {
 	})
 }
 
-const traceSynopsis = "MODEL.onnx DATA.csv|FEATURES.npy [--labels COL|LABELS.npy] [--maxdim D] [--metric euclidean|knn] [--rule ratio|relative|persistence|hops] [--per-class-cap N] [--seed S] [--out trace.json] [--csv long.csv]"
+const traceSynopsis = "MODEL.onnx DATA.csv|FEATURES.npy [--labels COL|LABELS.npy] [--top-dim D] [--metric euclidean|knn] [--rule ratio|relative|persistence|hops] [--per-class-cap N] [--seed S] [--out trace.json] [--csv long.csv]"
 
 // runTrace runs trace.RunFile and prints the per-stage table. For a CSV
 // sample --labels names the label column (header name or 1-based
@@ -37,13 +37,14 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 	fs := newFlagSet("trace", traceSynopsis, stderr)
 	labels := fs.String("labels", "", "CSV: label column (header name or 1-based number; default last); NPY: the labels .npy file")
 	header := fs.String("header", "auto", "CSV: is the first record a header: auto, yes or no")
-	maxDim := fs.Int("maxdim", trace.DefaultMaxDim, "highest homology dimension, 0..3")
+	maxDim := fs.Int("top-dim", trace.DefaultMaxDim, "highest homology dimension, 0..3")
 	metric := fs.String("metric", "euclidean", "euclidean or knn (hop count on the k-NN graph; same as --rule hops)")
 	rule := fs.String("rule", "", "how Betti numbers are read: ratio (default; significant death/birth ratios), relative, persistence or hops (default from --metric)")
 	alpha := fs.Float64("alpha", trace.DefaultAlpha, "ratio rule: family-wise significance level")
-	scale := fs.Float64("scale", trace.DefaultScale, "relative rule: read Betti numbers at this fraction of the diameter")
-	pers := fs.Float64("persistence", trace.DefaultPersistence, "persistence rule: count bars at least this fraction of the diameter long")
-	k := fs.Int("k", trace.DefaultK, "hops rule: neighbours in the k-NN graph; ratio rule: neighbours of the sampling scale")
+	scale := fs.Float64("scale-fraction", trace.DefaultScale, "relative rule: read Betti numbers at this fraction of the diameter")
+	pers := fs.Float64("persistence-fraction", trace.DefaultPersistence, "persistence rule: count bars at least this fraction of the diameter long")
+	k := fs.Int("graph-k", trace.DefaultK, "neighbours of the k-NN graph: its hop count is the hops rule's distance, and the ratio rule's sampling scale")
+	overlapK := fs.Int("overlap-k", trace.DefaultOverlapK, "neighbours of the k-NN agreement (knn.accuracy)")
 	hops := fs.Int("hops", trace.DefaultHops, "hops rule: read Betti numbers at this hop count")
 	glueTau := fs.Float64("glue-tau", trace.DefaultGlueTau, "a pair is glued when its input distance exceeds this × the input's median nearest-neighbour distance and its output distance is at most this × the output's")
 	classOrder := fs.String("class-order", "", "the class names in the order of the model's output units, comma-separated (default: integer labels name their units; other labels are matched to the units that agree most with the model's predictions)")
@@ -51,12 +52,16 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 	capN := fs.Int("per-class-cap", trace.DefaultCap, "at most this many points per class (seeded stratified subsample); negative means all")
 	seed := fs.Uint64("seed", trace.DefaultSeed, "seed of the subsample")
 	fuse := fs.Bool("fuse", false, "fuse consecutive affine stages (the layer view)")
-	whole := fs.Bool("whole", true, "also compute the whole sample's homology")
+	skipWhole := fs.Bool("skip-whole", false, "leave out the whole sample's homology (the costliest part)")
 	out := fs.String("out", "", "write the trace as JSON to this file (atomically)")
 	csvOut := fs.String("csv", "", "write the long CSV (stage,kind,class,measure,value) to this file")
 	maxMem := fs.String("max-memory", "", "memory budget of the homology, shared by the tasks that run at once, e.g. 8GiB (default 4GiB)")
 	workers := fs.Int("workers", 0, "tasks that run at once (default: the number of cores)")
 	timing := fs.Bool("timing", false, "record wall times in the JSON (makes it differ between runs)")
+	for old, new := range map[string]string{"maxdim": "top-dim", "scale": "scale-fraction", "persistence": "persistence-fraction", "k": "graph-k"} {
+		deprecate(fs, old, new, stderr)
+	}
+	deprecateNegation(fs, "whole", "skip-whole", stderr)
 	pos, err := parseFlags(fs, args)
 	if err != nil {
 		return err
@@ -66,7 +71,7 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 		return fmt.Errorf("usage: want MODEL and DATA arguments, got %d", len(pos))
 	}
 	if *maxDim < 0 || *maxDim > 3 {
-		return fmt.Errorf("--maxdim %d: want 0..3", *maxDim)
+		return fmt.Errorf("--top-dim %d: want 0..3", *maxDim)
 	}
 	if *maxDim == 0 {
 		*maxDim = trace.H0Only
@@ -79,7 +84,7 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 		}
 	}
 	set := &trace.Settings{MaxDim: *maxDim, Alpha: *alpha, Scale: *scale, Persistence: *pers, K: *k, Hops: *hops,
-		Cap: *capN, Seed: *seed, Fuse: *fuse, SkipWhole: !*whole, GlueTau: *glueTau, SkipProbe: *skipProbe, Timing: *timing}
+		Cap: *capN, Seed: *seed, Fuse: *fuse, SkipWhole: *skipWhole, GlueTau: *glueTau, OverlapK: *overlapK, SkipProbe: *skipProbe, Timing: *timing}
 	if *maxMem != "" {
 		if set.MaxBytes, err = parseBytes(*maxMem); err != nil {
 			return fmt.Errorf("--max-memory %q: %v", *maxMem, err)
