@@ -183,14 +183,14 @@ func (intTicks) Ticks(min, max float64) []plot.Tick {
 	return out
 }
 
-// WriteCollapseSVG writes an SVG plot of the collapse measures across the
+// WriteGluingSVG writes an SVG plot of the gluing and folding measures across the
 // stages after the input: the pairs of points glued within a class and
 // cross (different classes) (log scale, plotted as count + 1) and, on a second axis
 // set below, the fractions of points that ReLU-type stages leave
 // untouched, send to a face, or send to the origin (fold.untouched,
 // fold.face, fold.origin). It returns an error if the trace has fewer
 // than two stages.
-func (t *Trace) WriteCollapseSVG(w io.Writer) error {
+func (t *Trace) WriteGluingSVG(w io.Writer) error {
 	if len(t.Stages) < 2 {
 		return fmt.Errorf("trace: render: the trace has no stage after the input")
 	}

@@ -15,7 +15,7 @@ import (
 
 // WriteHTML writes a self-contained HTML report of the trace: the model,
 // sample and settings, the per-stage table, the Betti numbers of every
-// class across stages (one plot per homology dimension), the collapse
+// class across stages (one plot per homology dimension), the gluing and folding
 // measures across stages, and a barcode of every stage (the whole
 // sample when it was recorded, else each class). Every plot is inline
 // SVG; the page loads nothing (no scripts, fonts or styles from
@@ -107,8 +107,8 @@ svg{max-width:100%;height:auto}
 		}
 	}
 	if len(t.Stages) > 1 {
-		b.WriteString("<h2>Collapse across stages</h2>\n")
-		if err := figure(&b, "Pairs of points each stage glues together, and what ReLU-type stages do to the points.", t.WriteCollapseSVG); err != nil {
+		b.WriteString("<h2>Gluing and folding across stages</h2>\n")
+		if err := figure(&b, "Pairs of points each stage glues together, and what ReLU-type stages do to the points.", t.WriteGluingSVG); err != nil {
 			return err
 		}
 	}

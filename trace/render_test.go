@@ -85,7 +85,7 @@ func TestRenderSVG(t *testing.T) {
 	}{
 		{"betti0", func(w io.Writer) error { return tr.WriteBettiSVG(w, 0) }, []string{"high", "low", "whole sample"}},
 		{"betti1", func(w io.Writer) error { return tr.WriteBettiSVG(w, 1) }, []string{"high", "low"}},
-		{"collapse", tr.WriteCollapseSVG, []string{"glued cross (different classes)", "glued within (same class)"}},
+		{"gluing", tr.WriteGluingSVG, []string{"glued cross (different classes)", "glued within (same class)"}},
 		{"barcode-whole", func(w io.Writer) error { return tr.WriteBarcodeSVG(w, 0, "") }, []string{"H0", "H1", "whole sample"}},
 		{"barcode-class", func(w io.Writer) error { return tr.WriteBarcodeSVG(w, 3, "low") }, []string{"H0", "class low"}},
 	} {
