@@ -27,7 +27,8 @@ const conformanceDir = "/usr/share/libonnx-testdata/data/node"
 var conformanceOps = []string{
 	"gemm", "matmul_2d", "add", "relu", "leakyrelu", "elu", "softplus",
 	"sigmoid", "tanh", "softmax", "logsoftmax", "flatten", "identity",
-	"dropout", "batchnorm",
+	"dropout", "batchnorm", "clip", "prelu", "hardsigmoid", "hardswish",
+	"selu", "celu",
 }
 
 func readTensor(t *testing.T, path string) *onnxload.Tensor {
@@ -216,7 +217,7 @@ func TestConformance(t *testing.T) {
 	}
 	t.Logf("conformance: %d case directories (%d data sets); EvalNode passed %d single-node cases; Stages+Forward passed %d cases, refused %d that are not row-wise maps; %d not evaluated (training mode, non-float types, non-tensor inputs)",
 		len(dirs), nsets, evalPassed, stagePassed, len(notRowWise), len(notEvaluated))
-	for _, op := range []string{"gemm", "matmul", "add", "relu", "leakyrelu", "elu", "softplus", "sigmoid", "tanh", "softmax", "logsoftmax", "flatten", "identity", "dropout", "batchnorm"} {
+	for _, op := range []string{"gemm", "matmul", "add", "relu", "leakyrelu", "elu", "softplus", "sigmoid", "tanh", "softmax", "logsoftmax", "flatten", "identity", "dropout", "batchnorm", "clip", "prelu", "hardsigmoid", "hardswish", "selu", "celu"} {
 		if ranStages[op] == 0 {
 			t.Errorf("no conformance case ran through Stages for %s", op)
 		}

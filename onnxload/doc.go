@@ -41,10 +41,15 @@
 // Unsqueeze and Concat that x.view(x.size(0), −1) exports with a dynamic
 // batch are folded into the Reshape), Identity and Dropout
 // (no stage), and the activations Relu, LeakyRelu, Elu, Softplus,
-// Sigmoid, Tanh, Softmax and LogSoftmax over the feature axis, and GELU
-// and SiLU from the node patterns PyTorch 1.13 exports for them at
-// opsets 9–17 (x·(1 + erf(x/√2))/2 as Div, Erf, Add, Mul, Mul; x·σ(x) as
-// Sigmoid and Mul), each made one stage. Constant
+// Sigmoid, Tanh, Softmax and LogSoftmax over the feature axis, Clip
+// (bounds 0 and 6 give a relu6 stage, others hardtanh), PRelu (one slope
+// or one per unit), HardSigmoid, HardSwish, Selu and Celu, and the node
+// patterns PyTorch 1.13 exports for GELU (x·(1 + erf(x/√2))/2 as Div,
+// Erf, Add, Mul, Mul), GELU with approximate="tanh" (Mul, Add and Tanh
+// nodes), SiLU (Sigmoid, Mul), Mish (Softplus, Tanh, Mul) and Hardswish
+// before opset 14 (HardSigmoid, Mul), each made one stage. One operator
+// table gives [SupportedOps], the arity checks and the dispatch of both
+// the stage builder and the package's reference evaluator. Constant
 // nodes and initializers listed as graph inputs (IR version 3) are
 // handled. All numbers are float64; float32 initializers are converted
 // exactly.
@@ -52,10 +57,10 @@
 // [Forward] applies the stages to an n×d sample in row blocks on all
 // cores and keeps every stage's output.
 //
-// [EvalNode] evaluates a single node of a supported operator on whole
-// tensors, with the full ONNX semantics (any axis, transA, broadcasting).
-// It is a reference for checking operators, such as the ONNX backend test
-// cases, not the path models take.
+// The package's tests check every operator against the ONNX backend
+// test cases with an unexported whole-tensor evaluator (full ONNX
+// semantics: any axis, transA, broadcasting) that shares the operator
+// table with the stage builder.
 //
 // Models, stages and their weights are never changed after they are
 // built and are safe for concurrent reads.

@@ -9,169 +9,208 @@ import (
 	"math"
 )
 
-// EvalNode evaluates one node of a supported operator on whole tensors,
+// evalNode evaluates one node of a supported operator on whole tensors,
 // following the ONNX operator definitions at the given opset, with no
 // notion of samples or stages: Gemm (every attribute, C broadcast to the
 // output), 2-D MatMul, Add with NumPy broadcasting, the element-wise
-// activations, Softmax and LogSoftmax on any axis, Flatten on any axis,
-// Identity, inference-mode Dropout (with its mask) and inference-mode
-// BatchNormalization. Inputs are float tensors (nil for an omitted
-// optional input); missing attributes take their ONNX defaults.
+// activations (Clip, PRelu with its slope broadcast to the input, and
+// the others of opTable), Softmax and LogSoftmax on any axis, Flatten on
+// any axis, Identity, inference-mode Dropout (with its mask) and
+// inference-mode BatchNormalization. Inputs are float tensors (nil for
+// an omitted optional input); missing attributes take their ONNX
+// defaults.
 //
-// EvalNode is a reference for checking a single operator, such as the
-// ONNX backend test cases; [Model.Stages] and [Forward] are the fast path
-// for whole models. Errors are an *UnsupportedError for other operators
-// or modes and a *FormatError for shapes that do not fit the operator.
-func EvalNode(n *Node, opset int64, inputs []*Tensor) ([]*Tensor, error) {
+// evalNode is a reference for checking a single operator against the
+// ONNX backend test cases (conformance_test.go); [Model.Stages] and
+// [Forward] are the path models take. Errors are an *UnsupportedError
+// for other operators or modes and a *FormatError for shapes that do not
+// fit the operator.
+func evalNode(n *Node, opset int64, inputs []*Tensor) ([]*Tensor, error) {
 	where := nodeWhere(n, 0)
-	bad := func(format string, args ...any) error {
+	e := &evalCtx{n: n, opset: opset, inputs: inputs}
+	e.bad = func(format string, args ...any) error {
 		return &FormatError{Node: n.Name, Where: where, Reason: fmt.Sprintf(format, args...)}
 	}
-	unsup := func(format string, args ...any) error {
+	e.unsup = func(format string, args ...any) error {
 		return &UnsupportedError{Node: n.Name, Op: n.OpType, Where: where, Reason: fmt.Sprintf(format, args...)}
 	}
-	in := func(k int) *Tensor {
-		if k < len(inputs) {
-			return inputs[k]
-		}
-		return nil
-	}
-	x := in(0)
+	x := e.in(0)
 	if x == nil {
-		return nil, bad("missing input 0")
+		return nil, e.bad("missing input 0")
 	}
 	for k, t := range inputs {
 		if t != nil && !t.DataType.isFloat() && !(n.OpType == "Dropout" && k == 2) {
-			return nil, unsup("input %d has element type %v", k, t.DataType)
+			return nil, e.unsup("input %d has element type %v", k, t.DataType)
 		}
 	}
-	rank := int64(len(x.Dims))
-	axisOf := func(def int64) (int64, error) {
-		a := intAttr(n, "axis", def)
-		if a < -rank || a >= rank+boolInt(n.OpType == "Flatten") {
-			return 0, bad("axis %d out of range for rank %d", a, rank)
-		}
-		if a < 0 {
-			a += rank
-		}
-		return a, nil
+	d, err := checkOp(n, opset, e.unsup, e.bad)
+	if err != nil {
+		return nil, err
 	}
-	out := &Tensor{DataType: x.DataType, Dims: append([]int64(nil), x.Dims...), Float64: append([]float64(nil), x.Float64...)}
-	switch n.OpType {
-	case "Identity":
-		return []*Tensor{out}, nil
-	case "Dropout":
-		if tm := in(2); tm != nil && (len(tm.Int64) != 1 || tm.Int64[0] != 0) {
-			return nil, unsup("training_mode is not false")
-		}
-		mask := &Tensor{DataType: Bool, Dims: out.Dims, Int64: make([]int64, len(out.Float64))}
-		for i := range mask.Int64 {
-			mask.Int64[i] = 1
-		}
-		return []*Tensor{out, mask}, nil
-	case "Relu", "LeakyRelu", "Elu", "Softplus", "Sigmoid", "Tanh":
-		k := map[string]Kind{"Relu": ReLU, "LeakyRelu": LeakyReLU, "Elu": ELU, "Softplus": Softplus, "Sigmoid": Sigmoid, "Tanh": Tanh}[n.OpType]
-		alpha := floatAttr(n, "alpha", map[string]float64{"LeakyRelu": 0.01, "Elu": 1}[n.OpType])
-		applyRow(k, alpha, out.Float64)
-		return []*Tensor{out}, nil
-	case "Softmax", "LogSoftmax":
-		def := int64(1)
-		if opset >= 13 {
-			def = -1
-		}
-		axis, err := axisOf(def)
-		if err != nil {
-			return nil, err
-		}
-		outer, mid, inner := prod(x.Dims[:axis]), prod(x.Dims[axis:axis+1]), prod(x.Dims[axis+1:])
-		if opset < 13 {
-			mid, inner = prod(x.Dims[axis:]), 1
-		}
-		k := Softmax
-		if n.OpType == "LogSoftmax" {
-			k = LogSoftmax
-		}
-		buf := make([]float64, mid)
-		for o := 0; o < outer; o++ {
-			for i := 0; i < inner; i++ {
-				for j := range buf {
-					buf[j] = out.Float64[(o*mid+j)*inner+i]
-				}
-				applyRow(k, 0, buf)
-				for j, v := range buf {
-					out.Float64[(o*mid+j)*inner+i] = v
-				}
+	if d.eval == nil {
+		return nil, e.unsup("operator %s is not evaluated", n.OpType)
+	}
+	e.x = x
+	e.rank = int64(len(x.Dims))
+	e.out = &Tensor{DataType: x.DataType, Dims: append([]int64(nil), x.Dims...), Float64: append([]float64(nil), x.Float64...)}
+	return d.eval(e)
+}
+
+// evalCtx is the node evalNode evaluates, with its inputs.
+type evalCtx struct {
+	n      *Node
+	opset  int64
+	inputs []*Tensor
+	// x is input 0, rank its rank, and out a copy of it to work on.
+	x, out     *Tensor
+	rank       int64
+	bad, unsup func(format string, args ...any) error
+}
+
+// in returns input k, or nil if it is absent.
+func (e *evalCtx) in(k int) *Tensor {
+	if k < len(e.inputs) {
+		return e.inputs[k]
+	}
+	return nil
+}
+
+// axis returns the axis attribute, normalised to [0, rank); Flatten
+// also allows rank.
+func (e *evalCtx) axis(def int64) (int64, error) {
+	a := intAttr(e.n, "axis", def)
+	if a < -e.rank || a >= e.rank+boolInt(e.n.OpType == "Flatten") {
+		return 0, e.bad("axis %d out of range for rank %d", a, e.rank)
+	}
+	if a < 0 {
+		a += e.rank
+	}
+	return a, nil
+}
+
+func evalIdentity(e *evalCtx) ([]*Tensor, error) {
+	return []*Tensor{e.out}, nil
+}
+
+func evalDropout(e *evalCtx) ([]*Tensor, error) {
+	if tm := e.in(2); tm != nil && (len(tm.Int64) != 1 || tm.Int64[0] != 0) {
+		return nil, e.unsup("training_mode is not false")
+	}
+	mask := &Tensor{DataType: Bool, Dims: e.out.Dims, Int64: make([]int64, len(e.out.Float64))}
+	for i := range mask.Int64 {
+		mask.Int64[i] = 1
+	}
+	return []*Tensor{e.out, mask}, nil
+}
+
+func evalSoftmax(e *evalCtx) ([]*Tensor, error) {
+	x, out := e.x, e.out
+	def := int64(1)
+	if e.opset >= 13 {
+		def = -1
+	}
+	axis, err := e.axis(def)
+	if err != nil {
+		return nil, err
+	}
+	outer, mid, inner := prod(x.Dims[:axis]), prod(x.Dims[axis:axis+1]), prod(x.Dims[axis+1:])
+	if e.opset < 13 {
+		mid, inner = prod(x.Dims[axis:]), 1
+	}
+	s := &Stage{Kind: Softmax}
+	if e.n.OpType == "LogSoftmax" {
+		s.Kind = LogSoftmax
+	}
+	buf := make([]float64, mid)
+	for o := 0; o < outer; o++ {
+		for i := 0; i < inner; i++ {
+			for j := range buf {
+				buf[j] = out.Float64[(o*mid+j)*inner+i]
+			}
+			applyRow(s, buf)
+			for j, v := range buf {
+				out.Float64[(o*mid+j)*inner+i] = v
 			}
 		}
-		return []*Tensor{out}, nil
-	case "Flatten":
-		axis, err := axisOf(1)
-		if err != nil {
-			return nil, err
-		}
-		out.Dims = []int64{int64(prod(x.Dims[:axis])), int64(prod(x.Dims[axis:]))}
-		return []*Tensor{out}, nil
-	case "Add":
-		y := in(1)
-		if y == nil {
-			return nil, bad("missing input 1")
-		}
-		return broadcastAdd(x, y, 1, bad)
-	case "MatMul":
-		y := in(1)
-		if y == nil || len(x.Dims) != 2 || len(y.Dims) != 2 {
-			return nil, unsup("only 2-D MatMul is evaluated")
-		}
-		if x.Dims[1] != y.Dims[0] {
-			return nil, bad("MatMul of %v by %v", x.Dims, y.Dims)
-		}
-		return []*Tensor{matmul(x, y, false, false, 1)}, nil
-	case "Gemm":
-		y := in(1)
-		if y == nil || len(x.Dims) != 2 || len(y.Dims) != 2 {
-			return nil, bad("Gemm needs 2-D A and B")
-		}
-		ta, tb := intAttr(n, "transA", 0) != 0, intAttr(n, "transB", 0) != 0
-		ka, kb := x.Dims[1], y.Dims[0]
-		if ta {
-			ka = x.Dims[0]
-		}
-		if tb {
-			kb = y.Dims[1]
-		}
-		if ka != kb {
-			return nil, bad("Gemm of %v by %v (transA=%v, transB=%v)", x.Dims, y.Dims, ta, tb)
-		}
-		p := matmul(x, y, ta, tb, floatAttr(n, "alpha", 1))
-		c := in(2)
-		if c == nil {
-			return []*Tensor{p}, nil
-		}
-		return broadcastAdd(p, c, floatAttr(n, "beta", 1), bad)
-	case "BatchNormalization":
-		if intAttr(n, "training_mode", 0) != 0 || len(n.Outputs) > 1 && n.Outputs[1] != "" {
-			return nil, unsup("training mode is not evaluated")
-		}
-		if rank < 2 {
-			return nil, bad("input of rank %d", rank)
-		}
-		ch, inner := int(x.Dims[1]), prod(x.Dims[2:])
-		var p [4][]float64
-		for k := range p {
-			t := in(k + 1)
-			if t == nil || t.Len() != ch {
-				return nil, bad("parameter %d does not have %d values", k+1, ch)
-			}
-			p[k] = t.Float64
-		}
-		eps := floatAttr(n, "epsilon", 1e-5)
-		for i := range out.Float64 {
-			c := (i / inner) % ch
-			out.Float64[i] = p[0][c]*(out.Float64[i]-p[2][c])/math.Sqrt(p[3][c]+eps) + p[1][c]
-		}
-		return []*Tensor{out}, nil
 	}
-	return nil, unsup("operator %s is not evaluated", n.OpType)
+	return []*Tensor{out}, nil
+}
+
+func evalFlatten(e *evalCtx) ([]*Tensor, error) {
+	axis, err := e.axis(1)
+	if err != nil {
+		return nil, err
+	}
+	e.out.Dims = []int64{int64(prod(e.x.Dims[:axis])), int64(prod(e.x.Dims[axis:]))}
+	return []*Tensor{e.out}, nil
+}
+
+func evalAdd(e *evalCtx) ([]*Tensor, error) {
+	y := e.in(1)
+	if y == nil {
+		return nil, e.bad("missing input 1")
+	}
+	return broadcastAdd(e.x, y, 1, e.bad)
+}
+
+func evalMatMul(e *evalCtx) ([]*Tensor, error) {
+	x, y := e.x, e.in(1)
+	if y == nil || len(x.Dims) != 2 || len(y.Dims) != 2 {
+		return nil, e.unsup("only 2-D MatMul is evaluated")
+	}
+	if x.Dims[1] != y.Dims[0] {
+		return nil, e.bad("MatMul of %v by %v", x.Dims, y.Dims)
+	}
+	return []*Tensor{matmul(x, y, false, false, 1)}, nil
+}
+
+func evalGemm(e *evalCtx) ([]*Tensor, error) {
+	n, x, y := e.n, e.x, e.in(1)
+	if y == nil || len(x.Dims) != 2 || len(y.Dims) != 2 {
+		return nil, e.bad("Gemm needs 2-D A and B")
+	}
+	ta, tb := intAttr(n, "transA", 0) != 0, intAttr(n, "transB", 0) != 0
+	ka, kb := x.Dims[1], y.Dims[0]
+	if ta {
+		ka = x.Dims[0]
+	}
+	if tb {
+		kb = y.Dims[1]
+	}
+	if ka != kb {
+		return nil, e.bad("Gemm of %v by %v (transA=%v, transB=%v)", x.Dims, y.Dims, ta, tb)
+	}
+	p := matmul(x, y, ta, tb, floatAttr(n, "alpha", 1))
+	c := e.in(2)
+	if c == nil {
+		return []*Tensor{p}, nil
+	}
+	return broadcastAdd(p, c, floatAttr(n, "beta", 1), e.bad)
+}
+
+func evalBatchNorm(e *evalCtx) ([]*Tensor, error) {
+	n, x, out := e.n, e.x, e.out
+	if intAttr(n, "training_mode", 0) != 0 || len(n.Outputs) > 1 && n.Outputs[1] != "" {
+		return nil, e.unsup("training mode is not evaluated")
+	}
+	if e.rank < 2 {
+		return nil, e.bad("input of rank %d", e.rank)
+	}
+	ch, inner := int(x.Dims[1]), prod(x.Dims[2:])
+	var p [4][]float64
+	for k := range p {
+		t := e.in(k + 1)
+		if t == nil || t.Len() != ch {
+			return nil, e.bad("parameter %d does not have %d values", k+1, ch)
+		}
+		p[k] = t.Float64
+	}
+	eps := floatAttr(n, "epsilon", 1e-5)
+	for i := range out.Float64 {
+		c := (i / inner) % ch
+		out.Float64[i] = p[0][c]*(out.Float64[i]-p[2][c])/math.Sqrt(p[3][c]+eps) + p[1][c]
+	}
+	return []*Tensor{out}, nil
 }
 
 func boolInt(v bool) int64 {

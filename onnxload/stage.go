@@ -15,21 +15,31 @@ type Kind int
 
 // Stage kinds.
 const (
-	Affine     Kind = iota + 1 // y = W·x + B
-	ReLU                       // max(x, 0)
-	LeakyReLU                  // x if x ≥ 0, else Alpha·x
-	ELU                        // x if x > 0, else Alpha·(eˣ − 1)
-	Softplus                   // log(1 + eˣ)
-	Sigmoid                    // 1 / (1 + e⁻ˣ)
-	Tanh                       // tanh x
-	Softmax                    // eˣⁱ / Σⱼ eˣʲ over each row
-	LogSoftmax                 // xᵢ − log Σⱼ eˣʲ over each row
-	Reshape                    // rows unchanged (Flatten, Reshape to (N, −1))
-	GELU                       // x·Φ(x) = x·(1 + erf(x/√2))/2 (PyTorch's Erf pattern)
-	SiLU                       // x·σ(x) (PyTorch's Sigmoid·Mul pattern)
+	Affine      Kind = iota + 1 // y = W·x + B
+	ReLU                        // max(x, 0)
+	LeakyReLU                   // x if x ≥ 0, else Alpha·x
+	ELU                         // x if x > 0, else Alpha·(eˣ − 1)
+	Softplus                    // log(1 + eˣ)
+	Sigmoid                     // 1 / (1 + e⁻ˣ)
+	Tanh                        // tanh x
+	Softmax                     // eˣⁱ / Σⱼ eˣʲ over each row
+	LogSoftmax                  // xᵢ − log Σⱼ eˣʲ over each row
+	Reshape                     // rows unchanged (Flatten, Reshape to (N, −1))
+	GELU                        // x·Φ(x) = x·(1 + erf(x/√2))/2 (PyTorch's Erf pattern)
+	SiLU                        // x·σ(x) (PyTorch's Sigmoid·Mul pattern)
+	ReLU6                       // min(max(x, 0), 6) (Clip with bounds 0 and 6)
+	Hardtanh                    // min(max(x, Alpha), Beta) (Clip with other bounds)
+	PReLU                       // x if x ≥ 0, else Slope[j]·x for unit j
+	HardSigmoid                 // max(0, min(1, Alpha·x + Beta))
+	HardSwish                   // x·max(0, min(1, x/6 + 1/2)) (HardSwish, or PyTorch's HardSigmoid·Mul pattern)
+	SELU                        // Beta·x if x > 0, else Beta·Alpha·(eˣ − 1)
+	CELU                        // x if x > 0, else Alpha·(e^(x/Alpha) − 1)
+	Mish                        // x·tanh(log(1 + eˣ)) (PyTorch's Softplus·Tanh·Mul pattern)
+	GELUTanh                    // x·(1 + tanh(√(2/π)·(x + 0.044715·x³)))/2 (PyTorch's approximate="tanh" pattern)
 )
 
-var kindNames = [...]string{"", "affine", "relu", "leaky-relu", "elu", "softplus", "sigmoid", "tanh", "softmax", "log-softmax", "reshape", "gelu", "silu"}
+var kindNames = [...]string{"", "affine", "relu", "leaky-relu", "elu", "softplus", "sigmoid", "tanh", "softmax", "log-softmax", "reshape", "gelu", "silu",
+	"relu6", "hardtanh", "prelu", "hardsigmoid", "hardswish", "selu", "celu", "mish", "gelu-tanh"}
 
 // String returns the kind's name, such as "leaky-relu".
 func (k Kind) String() string {
@@ -58,8 +68,20 @@ type Stage struct {
 	W *mat.Dense
 	// B is the bias of an affine stage, of length Out; nil otherwise.
 	B []float64
-	// Alpha is the slope of leaky-relu or the scale of elu.
-	Alpha float64
+	// Alpha and Beta are the scalar parameters of an activation; kinds
+	// without parameters leave them zero:
+	//
+	//	leaky-relu   Alpha is the slope for x < 0
+	//	elu, celu    Alpha is the scale (celu: Alpha ≠ 0)
+	//	relu6        Alpha = 0 and Beta = 6, the bounds
+	//	hardtanh     Alpha and Beta are the lower and upper bounds (±Inf: none)
+	//	hardsigmoid  Alpha is the slope and Beta the offset
+	//	selu         Alpha is the scale of the negative part and Beta the
+	//	             overall scale (ONNX's gamma)
+	Alpha, Beta float64
+	// Slope holds the slope for x < 0 of each unit of a prelu stage, of
+	// length In (the ONNX slope broadcast to one sample); nil otherwise.
+	Slope []float64
 }
 
 // Apply writes the stage applied to each row of x into dst. x must be
@@ -92,12 +114,18 @@ func (s *Stage) Apply(dst *mat.Dense, x mat.Matrix) {
 		dst.Copy(x)
 	}
 	for i := 0; i < n; i++ {
-		applyRow(s.Kind, s.Alpha, dst.RawRowView(i))
+		applyRow(s, dst.RawRowView(i))
 	}
 }
 
-// applyRow applies an activation in place to one row.
-func applyRow(k Kind, alpha float64, row []float64) {
+// geluTanhC is the cubic coefficient of the tanh approximation of GELU
+// (Hendrycks and Gimpel 2016, as in PyTorch's approximate="tanh").
+const geluTanhC = 0.044715
+
+// applyRow applies the activation of s in place to one row. For prelu
+// the row must be s.Slope's length.
+func applyRow(s *Stage, row []float64) {
+	k, alpha := s.Kind, s.Alpha
 	switch k {
 	case ReLU:
 		for j, v := range row {
@@ -146,6 +174,51 @@ func applyRow(k Kind, alpha float64, row []float64) {
 				e := math.Exp(v)
 				row[j] = v * e / (1 + e)
 			}
+		}
+	case ReLU6, Hardtanh:
+		lo, hi := alpha, s.Beta
+		if k == ReLU6 {
+			lo, hi = 0, 6
+		}
+		for j, v := range row {
+			row[j] = min(max(v, lo), hi)
+		}
+	case PReLU:
+		for j, v := range row {
+			if v < 0 {
+				row[j] = s.Slope[j] * v
+			}
+		}
+	case HardSigmoid:
+		for j, v := range row {
+			row[j] = max(0, min(1, alpha*v+s.Beta))
+		}
+	case HardSwish:
+		for j, v := range row {
+			row[j] = v * max(0, min(1, v/6+0.5))
+		}
+	case SELU:
+		for j, v := range row {
+			if v <= 0 {
+				v = alpha * math.Expm1(v)
+			}
+			row[j] = s.Beta * v
+		}
+	case CELU:
+		for j, v := range row {
+			if v <= 0 {
+				row[j] = alpha * math.Expm1(v/alpha)
+			}
+		}
+	case Mish:
+		for j, v := range row {
+			sp := math.Max(v, 0) + math.Log1p(math.Exp(-math.Abs(v)))
+			row[j] = v * math.Tanh(sp)
+		}
+	case GELUTanh:
+		c := math.Sqrt(2 / math.Pi)
+		for j, v := range row {
+			row[j] = 0.5 * v * (1 + math.Tanh(c*(v+geluTanhC*v*v*v)))
 		}
 	case Softmax, LogSoftmax:
 		m := math.Inf(-1)

@@ -23,15 +23,6 @@ type StageSettings struct {
 	FuseAffine bool
 }
 
-// SupportedOps lists the operators that [Model.Stages] understands.
-var SupportedOps = []string{
-	"BatchNormalization", "Constant", "Dropout", "Elu", "Flatten", "Gemm",
-	"Identity", "LeakyRelu", "LogSoftmax", "MatMul", "Relu", "Reshape",
-	"Sigmoid", "Softmax", "Softplus", "Tanh", "Transpose", "Add",
-	// Shape arithmetic of x.view(x.size(0), -1) with a dynamic batch.
-	"Shape", "Gather", "Unsqueeze", "Concat",
-}
-
 // batchDim marks the batch size in the int64 tensors that Shape of the
 // data produces; the stage builder follows it through Gather, Unsqueeze
 // and Concat into a Reshape.
@@ -301,37 +292,18 @@ func floatAttr(n *Node, name string, def float64) float64 {
 }
 
 func (b *builder) node(n *Node, i int) error {
-	// Check the arity of the inputs we read.
-	nin := map[string][2]int{
-		"Gemm": {2, 3}, "MatMul": {2, 2}, "Add": {2, 2}, "BatchNormalization": {5, 5},
-		"Flatten": {1, 1}, "Reshape": {2, 2}, "Identity": {1, 1}, "Dropout": {1, 3},
-		"Relu": {1, 1}, "LeakyRelu": {1, 1}, "Elu": {1, 1}, "Softplus": {1, 1},
-		"Sigmoid": {1, 1}, "Tanh": {1, 1}, "Softmax": {1, 1}, "LogSoftmax": {1, 1},
-		"Constant": {0, 0}, "Transpose": {1, 1}, patternGELU: {1, 4}, patternSiLU: {1, 1},
-		"Shape": {1, 1}, "Gather": {2, 2}, "Unsqueeze": {1, 2}, "Concat": {1, math.MaxInt32},
-	}
-	ar, ok := nin[n.OpType]
-	if !ok {
-		return b.unsupported(n, i, "operator %s is not supported; supported operators: %s, and the GELU (Div, Erf, Add, Mul, Mul) and SiLU (Sigmoid, Mul) patterns PyTorch exports", n.OpType, strings.Join(SupportedOps, ", "))
-	}
-	if len(n.Inputs) < ar[0] || len(n.Inputs) > ar[1] {
-		return b.malformed(n, i, "%s has %d inputs, want %d to %d", n.OpType, len(n.Inputs), ar[0], ar[1])
+	d, err := checkOp(n, b.m.Opset,
+		func(format string, args ...any) error { return b.unsupported(n, i, format, args...) },
+		func(format string, args ...any) error { return b.malformed(n, i, format, args...) })
+	if err != nil {
+		return err
 	}
 	if len(n.Outputs) == 0 {
 		return b.malformed(n, i, "no outputs")
 	}
-	if n.OpType == "Constant" {
-		t, err := constantValue(n)
-		if err != nil {
-			return b.unsupported(n, i, "%v", err)
-		}
-		b.setOutput(n, &value{konst: t, origin: []string{nodeLabel(n, i)}})
-		return nil
-	}
 	// Every non-optional input must be known by now (validation has
 	// checked that it is defined and sorted the nodes).
 	var data *value
-	allConst := true
 	for k, name := range n.Inputs {
 		if name == "" {
 			continue
@@ -341,193 +313,223 @@ func (b *builder) node(n *Node, i int) error {
 			return b.unsupported(n, i, "input %q is not a constant or the data chain", name)
 		}
 		if v.konst == nil {
-			allConst = false
 			if data != nil {
 				return b.unsupported(n, i, "more than one input depends on the data; only chains of stages are supported")
 			}
 			if v != b.cur {
 				return b.unsupported(n, i, "input %q is not the end of the chain of stages (branches are not supported)", name)
 			}
-			if k != 0 && !(n.OpType == "Add" || n.OpType == "MatMul") {
+			if k != 0 && !d.dataIn {
 				return b.unsupported(n, i, "input %d of %s depends on the data; only input 0 may", k, n.OpType)
 			}
 			data = v
 		}
 	}
-	if allConst {
-		return b.constNode(n, i)
+	if data == nil {
+		// Every input is a constant.
+		if d.minIn > 0 && b.input(n, 0) == nil {
+			return b.malformed(n, i, "missing input")
+		}
+		if d.fold == nil {
+			return b.unsupported(n, i, "%s of constants is not supported (only %s are folded)", n.OpType, foldedList())
+		}
+		return d.fold(b, n, i)
 	}
+	if d.stage == nil {
+		return b.unsupported(n, i, "operator %s is not supported on the data", n.OpType)
+	}
+	return d.stage(b, n, i, data)
+}
+
+// constant records the tensor of a Constant node.
+func (b *builder) constant(n *Node, i int) error {
+	t, err := constantValue(n)
+	if err != nil {
+		return b.unsupported(n, i, "%v", err)
+	}
+	b.setOutput(n, &value{konst: t, origin: []string{nodeLabel(n, i)}})
+	return nil
+}
+
+// shapeOf folds Shape of the data into an int64 constant holding
+// batchDim for the batch.
+func (b *builder) shapeOf(n *Node, i int, data *value) error {
+	full := append([]int64{batchDim}, data.shape...)
+	r := int64(len(full))
+	start, end := intAttr(n, "start", 0), intAttr(n, "end", r)
+	if start < 0 {
+		start += r
+	}
+	if end < 0 {
+		end += r
+	}
+	start, end = min(max(start, 0), r), min(max(end, 0), r)
+	if end < start {
+		end = start
+	}
+	vals := append([]int64(nil), full[start:end]...)
+	b.setOutput(n, &value{konst: &Tensor{Name: n.Outputs[0], DataType: Int64, Dims: []int64{int64(len(vals))}, Int64: vals}, origin: []string{nodeLabel(n, i)}})
+	return nil
+}
+
+// passThrough handles Identity and inference-mode Dropout of the data:
+// no stage, the node joins the stage that produced its input.
+func (b *builder) passThrough(n *Node, i int, data *value) error {
+	if n.OpType == "Dropout" {
+		if len(n.Outputs) > 1 && n.Outputs[1] != "" && b.uses[n.Outputs[1]] > 0 {
+			return b.unsupported(n, i, "the dropout mask output is used; only inference-mode dropout is supported")
+		}
+		if tm := b.input(n, 2); tm != nil && (len(tm.konst.Int64) != 1 || tm.konst.Int64[0] != 0) {
+			return b.unsupported(n, i, "training_mode is not a constant false; only inference-mode dropout is supported")
+		}
+		if intAttr(n, "is_test", 1) == 0 && b.m.Opset > 0 && b.m.Opset < 7 {
+			return b.unsupported(n, i, "is_test=0 (training mode) is not supported")
+		}
+	}
+	if data.stage >= 0 {
+		s := &b.stages[data.stage]
+		s.Nodes = append(append(s.Nodes, b.constOrigins(n)...), nodeLabel(n, i))
+	} else {
+		b.pending = append(append(b.pending, b.constOrigins(n)...), nodeLabel(n, i))
+	}
+	b.setOutput(n, data)
+	return nil
+}
+
+// softmax handles Softmax and LogSoftmax over the feature axis.
+func (b *builder) softmax(n *Node, i int, data *value) error {
 	w := data.width()
-	switch n.OpType {
-	case "Shape":
-		full := append([]int64{batchDim}, data.shape...)
-		r := int64(len(full))
-		start, end := intAttr(n, "start", 0), intAttr(n, "end", r)
-		if start < 0 {
-			start += r
+	rank := int64(len(data.shape) + 1)
+	var axis int64
+	if b.m.Opset >= 13 {
+		axis = intAttr(n, "axis", -1)
+	} else {
+		axis = intAttr(n, "axis", 1)
+	}
+	if axis < -rank || axis >= rank {
+		return b.malformed(n, i, "axis %d is out of range for rank %d", axis, rank)
+	}
+	if axis < 0 {
+		axis += rank
+	}
+	rowWise := axis == 1 && (rank == 2 || b.m.Opset < 13)
+	if !rowWise {
+		return b.unsupported(n, i, "axis %d on data of rank %d is not a map of each sample's row (need axis 1 on 2-D data)", axis, rank)
+	}
+	k := Softmax
+	if n.OpType == "LogSoftmax" {
+		k = LogSoftmax
+	}
+	b.push(n, i, Stage{Kind: k, In: w, Out: w}, []int64{int64(w)})
+	return nil
+}
+
+func (b *builder) flatten(n *Node, i int, data *value) error {
+	w := data.width()
+	rank := int64(len(data.shape) + 1)
+	axis := intAttr(n, "axis", 1)
+	if axis < -rank || axis > rank {
+		return b.malformed(n, i, "axis %d is out of range for rank %d", axis, rank)
+	}
+	if axis < 0 {
+		axis += rank
+	}
+	if axis != 1 && !(axis == rank && rank == 1) {
+		return b.unsupported(n, i, "flatten with axis %d merges samples; only axis 1 is supported", axis)
+	}
+	b.push(n, i, Stage{Kind: Reshape, In: w, Out: w}, []int64{int64(w)})
+	return nil
+}
+
+func (b *builder) reshapeStage(n *Node, i int, data *value) error {
+	w := data.width()
+	shape, err := b.reshape(n, i, data)
+	if err != nil {
+		return err
+	}
+	b.push(n, i, Stage{Kind: Reshape, In: w, Out: w}, shape)
+	return nil
+}
+
+func (b *builder) matMul(n *Node, i int, data *value) error {
+	w := data.width()
+	if b.input(n, 0) != data {
+		return b.unsupported(n, i, "the weights are on the left of the data; only x·W is supported")
+	}
+	if len(data.shape) != 1 {
+		return b.unsupported(n, i, "matmul on data of rank %d; only 2-D data is supported", len(data.shape)+1)
+	}
+	wv := b.input(n, 1)
+	if wv == nil {
+		return b.malformed(n, i, "missing weight")
+	}
+	wt := wv.konst
+	if len(wt.Dims) != 2 || !wt.DataType.isFloat() {
+		return b.unsupported(n, i, "weight %q has dims %v of %v; want a 2-D float matrix", wt.Name, wt.Dims, wt.DataType)
+	}
+	if int(wt.Dims[0]) != w {
+		return b.malformed(n, i, "weight %q has dims %v, but the input width is %d", wt.Name, wt.Dims, w)
+	}
+	out := int(wt.Dims[1])
+	if out == 0 {
+		return b.unsupported(n, i, "output width 0")
+	}
+	if err := b.checkSize(n, i, out, w); err != nil {
+		return err
+	}
+	W := mat.NewDense(out, w, nil)
+	W.Copy(mat.NewDense(w, out, wt.Float64).T())
+	b.push(n, i, Stage{Kind: Affine, In: w, Out: out, W: W, B: make([]float64, out)}, []int64{int64(out)})
+	b.matmul[len(b.stages)-1] = true
+	return nil
+}
+
+// add folds an Add of a constant into the MatMul stage before it, or
+// makes it an affine stage of its own.
+func (b *builder) add(n *Node, i int, data *value) error {
+	w := data.width()
+	v := b.input(n, 0)
+	if v == data {
+		v = b.input(n, 1)
+	}
+	if v == nil {
+		return b.malformed(n, i, "missing addend")
+	}
+	c := v.konst
+	bias, err := rowBias(c, data.shape, 1)
+	if err != nil {
+		return b.unsupported(n, i, "%v", err)
+	}
+	dataName := n.Inputs[0]
+	if b.input(n, 0) != data {
+		dataName = n.Inputs[1]
+	}
+	// Fold the bias into the MatMul stage that produced the data,
+	// when nothing else reads the MatMul's output.
+	if k := data.stage; k >= 0 && k == len(b.stages)-1 && b.uses[dataName] == 1 && b.matmul[k] {
+		s := &b.stages[k]
+		for j := range s.B {
+			s.B[j] += bias[j]
 		}
-		if end < 0 {
-			end += r
-		}
-		start, end = min(max(start, 0), r), min(max(end, 0), r)
-		if end < start {
-			end = start
-		}
-		vals := append([]int64(nil), full[start:end]...)
-		b.setOutput(n, &value{konst: &Tensor{Name: n.Outputs[0], DataType: Int64, Dims: []int64{int64(len(vals))}, Int64: vals}, origin: []string{nodeLabel(n, i)}})
-		return nil
-	case "Identity", "Dropout":
-		if n.OpType == "Dropout" {
-			if len(n.Outputs) > 1 && n.Outputs[1] != "" && b.uses[n.Outputs[1]] > 0 {
-				return b.unsupported(n, i, "the dropout mask output is used; only inference-mode dropout is supported")
-			}
-			if tm := b.input(n, 2); tm != nil && (len(tm.konst.Int64) != 1 || tm.konst.Int64[0] != 0) {
-				return b.unsupported(n, i, "training_mode is not a constant false; only inference-mode dropout is supported")
-			}
-			if intAttr(n, "is_test", 1) == 0 && b.m.Opset > 0 && b.m.Opset < 7 {
-				return b.unsupported(n, i, "is_test=0 (training mode) is not supported")
-			}
-		}
-		if data.stage >= 0 {
-			s := &b.stages[data.stage]
-			s.Nodes = append(append(s.Nodes, b.constOrigins(n)...), nodeLabel(n, i))
-		} else {
-			b.pending = append(append(b.pending, b.constOrigins(n)...), nodeLabel(n, i))
-		}
+		s.Nodes = append(append(s.Nodes, b.constOrigins(n)...), nodeLabel(n, i))
+		b.matmul[k] = false
 		b.setOutput(n, data)
 		return nil
-	case patternGELU, patternSiLU:
-		k := GELU
-		if n.OpType == patternSiLU {
-			k = SiLU
-		}
-		b.push(n, i, Stage{Kind: k, In: w, Out: w}, data.shape)
-		return nil
-	case "Relu", "Sigmoid", "Tanh", "Softplus":
-		k := map[string]Kind{"Relu": ReLU, "Sigmoid": Sigmoid, "Tanh": Tanh, "Softplus": Softplus}[n.OpType]
-		b.push(n, i, Stage{Kind: k, In: w, Out: w}, data.shape)
-		return nil
-	case "LeakyRelu":
-		b.push(n, i, Stage{Kind: LeakyReLU, In: w, Out: w, Alpha: floatAttr(n, "alpha", 0.01)}, data.shape)
-		return nil
-	case "Elu":
-		b.push(n, i, Stage{Kind: ELU, In: w, Out: w, Alpha: floatAttr(n, "alpha", 1)}, data.shape)
-		return nil
-	case "Softmax", "LogSoftmax":
-		rank := int64(len(data.shape) + 1)
-		var axis int64
-		if b.m.Opset >= 13 {
-			axis = intAttr(n, "axis", -1)
-		} else {
-			axis = intAttr(n, "axis", 1)
-		}
-		if axis < -rank || axis >= rank {
-			return b.malformed(n, i, "axis %d is out of range for rank %d", axis, rank)
-		}
-		if axis < 0 {
-			axis += rank
-		}
-		rowWise := axis == 1 && (rank == 2 || b.m.Opset < 13)
-		if !rowWise {
-			return b.unsupported(n, i, "axis %d on data of rank %d is not a map of each sample's row (need axis 1 on 2-D data)", axis, rank)
-		}
-		k := Softmax
-		if n.OpType == "LogSoftmax" {
-			k = LogSoftmax
-		}
-		b.push(n, i, Stage{Kind: k, In: w, Out: w}, []int64{int64(w)})
-		return nil
-	case "Flatten":
-		rank := int64(len(data.shape) + 1)
-		axis := intAttr(n, "axis", 1)
-		if axis < -rank || axis > rank {
-			return b.malformed(n, i, "axis %d is out of range for rank %d", axis, rank)
-		}
-		if axis < 0 {
-			axis += rank
-		}
-		if axis != 1 && !(axis == rank && rank == 1) {
-			return b.unsupported(n, i, "flatten with axis %d merges samples; only axis 1 is supported", axis)
-		}
-		b.push(n, i, Stage{Kind: Reshape, In: w, Out: w}, []int64{int64(w)})
-		return nil
-	case "Reshape":
-		shape, err := b.reshape(n, i, data)
-		if err != nil {
-			return err
-		}
-		b.push(n, i, Stage{Kind: Reshape, In: w, Out: w}, shape)
-		return nil
-	case "Gemm":
-		return b.gemm(n, i, data)
-	case "MatMul":
-		if b.input(n, 0) != data {
-			return b.unsupported(n, i, "the weights are on the left of the data; only x·W is supported")
-		}
-		if len(data.shape) != 1 {
-			return b.unsupported(n, i, "matmul on data of rank %d; only 2-D data is supported", len(data.shape)+1)
-		}
-		wt := b.input(n, 1).konst
-		if len(wt.Dims) != 2 || !wt.DataType.isFloat() {
-			return b.unsupported(n, i, "weight %q has dims %v of %v; want a 2-D float matrix", wt.Name, wt.Dims, wt.DataType)
-		}
-		if int(wt.Dims[0]) != w {
-			return b.malformed(n, i, "weight %q has dims %v, but the input width is %d", wt.Name, wt.Dims, w)
-		}
-		out := int(wt.Dims[1])
-		if out == 0 {
-			return b.unsupported(n, i, "output width 0")
-		}
-		if err := b.checkSize(n, i, out, w); err != nil {
-			return err
-		}
-		W := mat.NewDense(out, w, nil)
-		W.Copy(mat.NewDense(w, out, wt.Float64).T())
-		b.push(n, i, Stage{Kind: Affine, In: w, Out: out, W: W, B: make([]float64, out)}, []int64{int64(out)})
-		b.matmul[len(b.stages)-1] = true
-		return nil
-	case "Add":
-		var c *Tensor
-		if v := b.input(n, 0); v != data {
-			c = v.konst
-		} else {
-			c = b.input(n, 1).konst
-		}
-		bias, err := rowBias(c, data.shape, 1)
-		if err != nil {
-			return b.unsupported(n, i, "%v", err)
-		}
-		dataName := n.Inputs[0]
-		if b.input(n, 0) != data {
-			dataName = n.Inputs[1]
-		}
-		// Fold the bias into the MatMul stage that produced the data,
-		// when nothing else reads the MatMul's output.
-		if k := data.stage; k >= 0 && k == len(b.stages)-1 && b.uses[dataName] == 1 && b.matmul[k] {
-			s := &b.stages[k]
-			for j := range s.B {
-				s.B[j] += bias[j]
-			}
-			s.Nodes = append(append(s.Nodes, b.constOrigins(n)...), nodeLabel(n, i))
-			b.matmul[k] = false
-			b.setOutput(n, data)
-			return nil
-		}
-		if err := b.checkSize(n, i, w, w); err != nil {
-			return err
-		}
-		W := mat.NewDense(w, w, nil)
-		for j := 0; j < w; j++ {
-			W.Set(j, j, 1)
-		}
-		b.push(n, i, Stage{Kind: Affine, In: w, Out: w, W: W, B: bias}, data.shape)
-		return nil
-	case "BatchNormalization":
-		return b.batchNorm(n, i, data)
-	case "Transpose":
-		return b.unsupported(n, i, "transpose of the data mixes samples; only transposes of constants are supported")
 	}
-	return b.unsupported(n, i, "operator %s is not supported on the data", n.OpType)
+	if err := b.checkSize(n, i, w, w); err != nil {
+		return err
+	}
+	W := mat.NewDense(w, w, nil)
+	for j := 0; j < w; j++ {
+		W.Set(j, j, 1)
+	}
+	b.push(n, i, Stage{Kind: Affine, In: w, Out: w, W: W, B: bias}, data.shape)
+	return nil
+}
+
+// transposeData refuses a transpose of the data.
+func (b *builder) transposeData(n *Node, i int, _ *value) error {
+	return b.unsupported(n, i, "transpose of the data mixes samples; only transposes of constants are supported")
 }
 
 // rowBias returns scale·c broadcast (NumPy rules, aligned on the right)
@@ -537,12 +539,24 @@ func rowBias(c *Tensor, shape []int64, scale float64) ([]float64, error) {
 	if !c.DataType.isFloat() {
 		return nil, fmt.Errorf("addend %q has element type %v, want float", c.Name, c.DataType)
 	}
-	r := len(shape)
-	bad := func() error {
-		return fmt.Errorf("addend %q has dims %v, which do not broadcast to one sample of shape %v (a per-sample addend is not a map of each row)", c.Name, c.Dims, shape)
+	out, ok := broadcastTo(c, shape, scale)
+	if !ok {
+		return nil, fmt.Errorf("addend %q has dims %v, which do not broadcast to one sample of shape %v (a per-sample addend is not a map of each row)", c.Name, c.Dims, shape)
 	}
+	return out, nil
+}
+
+// broadcastTo returns scale·c broadcast (NumPy rules, aligned on the
+// right) to shape, flattened row-major, or false if c does not
+// broadcast to it. c may have one more dimension than shape, of size 1
+// (the batch, for one sample's shape). c must hold floats.
+func broadcastTo(c *Tensor, shape []int64, scale float64) ([]float64, bool) {
+	if !c.DataType.isFloat() || len(c.Float64) != c.Len() {
+		return nil, false
+	}
+	r := len(shape)
 	if len(c.Dims) > r+1 {
-		return nil, bad()
+		return nil, false
 	}
 	// cd is c's shape padded on the left to rank r+1.
 	cd := make([]int64, r+1)
@@ -551,13 +565,13 @@ func rowBias(c *Tensor, shape []int64, scale float64) ([]float64, error) {
 	}
 	copy(cd[r+1-len(c.Dims):], c.Dims)
 	if cd[0] != 1 {
-		return nil, bad()
+		return nil, false
 	}
 	cd = cd[1:]
 	w := 1
 	for k, d := range shape {
 		if cd[k] != 1 && cd[k] != d {
-			return nil, bad()
+			return nil, false
 		}
 		w *= int(d)
 	}
@@ -581,7 +595,7 @@ func rowBias(c *Tensor, shape []int64, scale float64) ([]float64, error) {
 			idx[k] = 0
 		}
 	}
-	return out, nil
+	return out, true
 }
 
 func (b *builder) gemm(n *Node, i int, data *value) error {
@@ -743,48 +757,47 @@ func (b *builder) reshape(n *Node, i int, data *value) ([]int64, error) {
 	return rest, nil
 }
 
-// constNode folds a node whose inputs are all constants.
-func (b *builder) constNode(n *Node, i int) error {
-	in := b.input(n, 0)
-	if in == nil {
-		return b.malformed(n, i, "missing input")
+// foldIdentity folds Identity and Dropout of a constant.
+func (b *builder) foldIdentity(n *Node, i int) error {
+	t := b.input(n, 0).konst
+	b.setOutput(n, &value{konst: t, origin: append(b.constOrigins(n), nodeLabel(n, i))})
+	return nil
+}
+
+// foldTranspose folds the transpose of a constant matrix.
+func (b *builder) foldTranspose(n *Node, i int) error {
+	t := b.input(n, 0).konst
+	if len(t.Dims) != 2 || !t.DataType.isFloat() {
+		return b.unsupported(n, i, "transpose of a constant with dims %v of %v; only 2-D float matrices", t.Dims, t.DataType)
 	}
-	t := in.konst
-	switch n.OpType {
-	case "Identity", "Dropout":
-		b.setOutput(n, &value{konst: t, origin: append(b.constOrigins(n), nodeLabel(n, i))})
-		return nil
-	case "Transpose":
-		if len(t.Dims) != 2 || !t.DataType.isFloat() {
-			return b.unsupported(n, i, "transpose of a constant with dims %v of %v; only 2-D float matrices", t.Dims, t.DataType)
+	if a := n.Attr("perm"); a != nil && !(len(a.Ints) == 2 && a.Ints[0] == 1 && a.Ints[1] == 0) {
+		if len(a.Ints) == 2 && a.Ints[0] == 0 && a.Ints[1] == 1 {
+			b.setOutput(n, &value{konst: t, origin: append(b.constOrigins(n), nodeLabel(n, i))})
+			return nil
 		}
-		if a := n.Attr("perm"); a != nil && !(len(a.Ints) == 2 && a.Ints[0] == 1 && a.Ints[1] == 0) {
-			if len(a.Ints) == 2 && a.Ints[0] == 0 && a.Ints[1] == 1 {
-				b.setOutput(n, &value{konst: t, origin: append(b.constOrigins(n), nodeLabel(n, i))})
-				return nil
-			}
-			return b.malformed(n, i, "perm %v is not a permutation of 2 axes", a.Ints)
-		}
-		r, c := int(t.Dims[0]), int(t.Dims[1])
-		var d mat.Dense
-		if r*c > 0 {
-			d.CloneFrom(mat.NewDense(r, c, t.Float64).T())
-		}
-		out := &Tensor{Name: n.Outputs[0], DataType: t.DataType, Dims: []int64{int64(c), int64(r)}, Float64: make([]float64, 0, r*c)}
-		for k := 0; k < c && r > 0; k++ {
-			out.Float64 = append(out.Float64, d.RawRowView(k)...)
-		}
-		b.setOutput(n, &value{konst: out, origin: append(b.constOrigins(n), nodeLabel(n, i))})
-		return nil
-	case "Gather", "Unsqueeze", "Concat":
-		out, err := foldShapeOp(n, b, i)
-		if err != nil {
-			return err
-		}
-		b.setOutput(n, &value{konst: out, origin: append(b.constOrigins(n), nodeLabel(n, i))})
-		return nil
+		return b.malformed(n, i, "perm %v is not a permutation of 2 axes", a.Ints)
 	}
-	return b.unsupported(n, i, "%s of constants is not supported (only Identity, Dropout, Transpose, Gather, Unsqueeze and Concat are folded)", n.OpType)
+	r, c := int(t.Dims[0]), int(t.Dims[1])
+	var d mat.Dense
+	if r*c > 0 {
+		d.CloneFrom(mat.NewDense(r, c, t.Float64).T())
+	}
+	out := &Tensor{Name: n.Outputs[0], DataType: t.DataType, Dims: []int64{int64(c), int64(r)}, Float64: make([]float64, 0, r*c)}
+	for k := 0; k < c && r > 0; k++ {
+		out.Float64 = append(out.Float64, d.RawRowView(k)...)
+	}
+	b.setOutput(n, &value{konst: out, origin: append(b.constOrigins(n), nodeLabel(n, i))})
+	return nil
+}
+
+// foldShape folds Gather, Unsqueeze and Concat of shape arithmetic.
+func (b *builder) foldShape(n *Node, i int) error {
+	out, err := foldShapeOp(n, b, i)
+	if err != nil {
+		return err
+	}
+	b.setOutput(n, &value{konst: out, origin: append(b.constOrigins(n), nodeLabel(n, i))})
+	return nil
 }
 
 // foldShapeOp folds Gather, Unsqueeze and Concat on small int64 tensors,

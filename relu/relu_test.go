@@ -384,3 +384,105 @@ func TestGlueBruteForce(t *testing.T) {
 		t.Errorf("got total %d cross %d examples %v; want %d %d %v", r.Total, r.Cross, r.Examples, total, cross, ex)
 	}
 }
+
+// TestFoldPiecewise checks Fold on two-level clamps and an injective
+// leaky ReLU, on samples worked by hand (each expected number is derived
+// in the comments; no reference library is involved).
+func TestFoldPiecewise(t *testing.T) {
+	t.Parallel()
+	relu6 := &Piecewise{Breaks: []float64{0, 6}, Flat: []bool{true, false, true},
+		Func: func(_ int, x float64) float64 { return min(max(x, 0), 6) }}
+	leaky := &Piecewise{Breaks: []float64{0}, Flat: []bool{false, false},
+		Func: func(_ int, x float64) float64 { return max(x, 0.1*x) }}
+	for _, test := range []struct {
+		name   string
+		act    *Piecewise
+		pre    []float64 // rows of 2
+		post   func(float64) float64
+		labels []int
+		want   FoldReport
+		reason string
+	}{
+		{
+			name: "relu6", act: relu6,
+			// Pieces per unit (0 below 0, 1 in (0, 6], 2 above 6):
+			// (1,2) class 0, (0,2) class 1, (1,1) class 0, (1,2) class 1.
+			pre:    []float64{1, 7, -1, 8, 2, 3, 3, 9},
+			post:   func(x float64) float64 { return min(max(x, 0), 6) },
+			labels: []int{0, 1, 0, 1},
+			want: FoldReport{
+				// Flat pieces (0 and 2) per row: 1, 2, 0, 1.
+				Zeroed: []int{1, 2, 0, 1}, Untouched: 1, Face: 2, Origin: 1,
+				UntouchedFrac: 0.25, FaceFrac: 0.5, OriginFrac: 0.25,
+				// Unit 0 is in (0, 6] on rows 0, 2, 3 but not 1; unit 1
+				// is flat on rows 0, 1, 3 but not 2: neither is dead or
+				// always in one linear piece.
+				Dead: nil, AlwaysActive: nil,
+				// Patterns (1,2)×2, (0,2), (1,1): histogram 2, 1, 1 of 4,
+				// H = −(½ log₂ ½ + 2·¼ log₂ ¼) = ½ + 1 = 1.5 bits.
+				Patterns: 3, Entropy: 1.5,
+				// (1,2) holds rows 0 (class 0) and 3 (class 1).
+				SharedPatterns: 1, SharedPoints: 2,
+			},
+			reason: "ReLU6 clamps at 0 and 6: row 1 lands on the corner (0, 6)",
+		},
+		{
+			name: "leaky", act: leaky,
+			// Pieces (1,0), (0,0), (1,0).
+			pre:  []float64{1, -2, -1, -3, 2, -1},
+			post: func(x float64) float64 { return max(x, 0.1*x) },
+			want: FoldReport{
+				// No flat piece: nothing is zeroed.
+				Zeroed: []int{0, 0, 0}, Untouched: 3, UntouchedFrac: 1,
+				// Unit 1 is below 0 on every row: the activation is
+				// linear for it on this sample.
+				AlwaysActive: []int{1},
+				// Histogram 2, 1 of 3: H = −(⅔ log₂ ⅔ + ⅓ log₂ ⅓) = log₂ 3 − ⅔.
+				Patterns: 2, Entropy: math.Log2(3) - 2.0/3,
+			},
+			reason: "a leaky ReLU is injective: no face or origin collapse",
+		},
+		{
+			name: "leaky checked on relu output", act: leaky,
+			pre:  []float64{1, -2, -1, -3, 2, -1},
+			post: func(x float64) float64 { return max(x, 0) },
+			want: FoldReport{
+				Zeroed: []int{0, 0, 0}, Untouched: 3, UntouchedFrac: 1,
+				AlwaysActive: []int{1}, Patterns: 2, Entropy: math.Log2(3) - 2.0/3,
+				// The four negative entries −2, −1, −3, −1 differ.
+				Mismatch: 4,
+			},
+			reason: "post is not the leaky ReLU of pre",
+		},
+	} {
+		t.Run(test.name, func(t *testing.T) {
+			n := len(test.pre) / 2
+			pre := mat.NewDense(n, 2, test.pre)
+			post := mat.NewDense(n, 2, nil)
+			post.Apply(func(_, _ int, v float64) float64 { return test.post(v) }, pre)
+			r, err := Fold(pre, post, test.labels, &FoldSettings{Activation: test.act})
+			if err != nil {
+				t.Fatal(err)
+			}
+			w := test.want
+			if !slices.Equal(r.Zeroed, w.Zeroed) || r.Untouched != w.Untouched || r.Face != w.Face || r.Origin != w.Origin ||
+				r.UntouchedFrac != w.UntouchedFrac || r.FaceFrac != w.FaceFrac || r.OriginFrac != w.OriginFrac ||
+				!slices.Equal(r.Dead, w.Dead) || !slices.Equal(r.AlwaysActive, w.AlwaysActive) || r.Patterns != w.Patterns ||
+				math.Abs(r.Entropy-w.Entropy) > 1e-15 || r.SharedPatterns != w.SharedPatterns || r.SharedPoints != w.SharedPoints ||
+				r.Mismatch != w.Mismatch {
+				t.Errorf("%s: got %+v", test.reason, r)
+			}
+		})
+	}
+	// Invalid activations are errors.
+	a := mat.NewDense(1, 1, []float64{1})
+	for _, bad := range []*Piecewise{
+		{Breaks: []float64{0}, Flat: []bool{true}},
+		{Breaks: []float64{1, 0}, Flat: []bool{true, false, true}},
+		{Breaks: []float64{math.NaN()}, Flat: []bool{true, false}},
+	} {
+		if _, err := Fold(a, a, nil, &FoldSettings{Activation: bad}); err == nil {
+			t.Errorf("Fold accepted activation %+v", bad)
+		}
+	}
+}

@@ -87,15 +87,57 @@ func stageMeasures(ctx context.Context, st *Stage, in, out *mat.Dense, ms *onnxl
 		put("affine.rank_out", float64(a.RankOut))
 		put("affine.identified", float64(a.Identified))
 		put("affine.forces_identifications", b2f(a.ForcesIdentifications))
-	case onnxload.ReLU:
-		f, err := relu.Fold(in, out, labels, nil)
+	case onnxload.ReLU, onnxload.ReLU6, onnxload.Hardtanh, onnxload.HardSigmoid, onnxload.LeakyReLU, onnxload.PReLU:
+		// Piecewise-linear activations: ReLU is flat below 0; ReLU6,
+		// Hardtanh and Hardsigmoid clamp at two levels (flat outside
+		// their breakpoints); LeakyReLU and PReLU are injective (no flat
+		// piece, so no face or origin collapse: only the activation
+		// patterns are recorded).
+		var act *relu.Piecewise
+		injective := false
+		switch ms.Kind {
+		case onnxload.ReLU6, onnxload.Hardtanh, onnxload.HardSigmoid:
+			lo, hi := ms.Alpha, ms.Beta
+			if ms.Kind == onnxload.ReLU6 {
+				lo, hi = 0, 6
+			}
+			if ms.Kind == onnxload.HardSigmoid {
+				// max(0, min(1, αx + β)) is flat where αx + β ∉ (0, 1).
+				if ms.Alpha == 0 {
+					break
+				}
+				lo, hi = -ms.Beta/ms.Alpha, (1-ms.Beta)/ms.Alpha
+				lo, hi = min(lo, hi), max(lo, hi)
+			}
+			var breaks []float64
+			var flat []bool
+			if !math.IsInf(lo, -1) {
+				breaks, flat = append(breaks, lo), append(flat, true)
+			}
+			flat = append(flat, false)
+			if !math.IsInf(hi, 1) {
+				breaks, flat = append(breaks, hi), append(flat, true)
+			}
+			if len(breaks) > 0 && lo < hi {
+				act = &relu.Piecewise{Breaks: breaks, Flat: flat}
+			}
+		case onnxload.LeakyReLU, onnxload.PReLU:
+			act = &relu.Piecewise{Breaks: []float64{0}, Flat: []bool{false, false}}
+			injective = true
+		}
+		if ms.Kind != onnxload.ReLU && act == nil {
+			break
+		}
+		f, err := relu.Fold(in, out, labels, &relu.FoldSettings{Activation: act})
 		if err != nil {
 			return 0, 0, err
 		}
-		put("fold.untouched", f.UntouchedFrac)
-		put("fold.face", f.FaceFrac)
-		put("fold.origin", f.OriginFrac)
-		put("fold.dead", float64(len(f.Dead)))
+		if !injective {
+			put("fold.untouched", f.UntouchedFrac)
+			put("fold.face", f.FaceFrac)
+			put("fold.origin", f.OriginFrac)
+			put("fold.dead", float64(len(f.Dead)))
+		}
 		put("fold.always_active", float64(len(f.AlwaysActive)))
 		put("fold.patterns", float64(f.Patterns))
 		put("fold.entropy", f.Entropy)

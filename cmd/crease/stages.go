@@ -8,6 +8,7 @@ import (
 	"context"
 	"fmt"
 	"io"
+	"slices"
 	"strings"
 	"text/tabwriter"
 
@@ -77,8 +78,18 @@ func runStages(ctx context.Context, args []string, stdin io.Reader, stdout, stde
 	}
 	for i, s := range stages {
 		kind := s.Kind.String()
-		if s.Kind == onnxload.LeakyReLU || s.Kind == onnxload.ELU {
-			kind += fmt.Sprintf("(%g)", s.Alpha)
+		switch s.Kind {
+		// Parameters to 6 digits: exported weights are float32.
+		case onnxload.LeakyReLU, onnxload.ELU, onnxload.CELU:
+			kind += fmt.Sprintf("(%.6g)", s.Alpha)
+		case onnxload.Hardtanh, onnxload.HardSigmoid, onnxload.SELU:
+			kind += fmt.Sprintf("(%.6g, %.6g)", s.Alpha, s.Beta)
+		case onnxload.PReLU:
+			if len(s.Slope) > 0 && !slices.ContainsFunc(s.Slope, func(v float64) bool { return v != s.Slope[0] }) {
+				kind += fmt.Sprintf("(%.6g)", s.Slope[0])
+			} else {
+				kind += fmt.Sprintf("(%d slopes)", len(s.Slope))
+			}
 		}
 		fmt.Fprintf(tw, "%d\t%s\t%d→%d\t%s\t%s\n", i+1, kind, s.In, s.Out, s.Name, strings.Join(s.Nodes, " "))
 	}
