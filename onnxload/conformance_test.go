@@ -205,7 +205,7 @@ func TestConformance(t *testing.T) {
 			notRowWise = append(notRowWise, name+": "+stageReason)
 		}
 	}
-	t.Logf("EvalNode ran: %s", strings.Join(evalRan, " "))
+	t.Logf("evalNode ran: %s", strings.Join(evalRan, " "))
 	for _, s := range notRowWise {
 		t.Logf("not a row-wise MLP case (Stages refuses it): %s", s)
 	}
@@ -215,7 +215,7 @@ func TestConformance(t *testing.T) {
 			t.Errorf("single-node case not evaluated for an unexpected reason: %s", s)
 		}
 	}
-	t.Logf("conformance: %d case directories (%d data sets); EvalNode passed %d single-node cases; Stages+Forward passed %d cases, refused %d that are not row-wise maps; %d not evaluated (training mode, non-float types, non-tensor inputs)",
+	t.Logf("conformance: %d case directories (%d data sets); evalNode passed %d single-node cases; Stages+Forward passed %d cases, refused %d that are not row-wise maps; %d not evaluated (training mode, non-float types, non-tensor inputs)",
 		len(dirs), nsets, evalPassed, stagePassed, len(notRowWise), len(notEvaluated))
 	for _, op := range []string{"gemm", "matmul", "add", "relu", "leakyrelu", "elu", "softplus", "sigmoid", "tanh", "softmax", "logsoftmax", "flatten", "identity", "dropout", "batchnorm", "clip", "prelu", "hardsigmoid", "hardswish", "selu", "celu"} {
 		if ranStages[op] == 0 {
