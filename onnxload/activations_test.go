@@ -5,8 +5,11 @@
 package onnxload_test
 
 import (
+	"encoding/json"
 	"errors"
+	"maps"
 	"math"
+	"os"
 	"path/filepath"
 	"slices"
 	"strings"
@@ -22,37 +25,57 @@ import (
 // checked against torch by TestFixturesAgreeWithTorch.
 func TestActivationFixtures(t *testing.T) {
 	f32 := func(v float64) float64 { return float64(float32(v)) }
-	for _, c := range []struct {
-		file        string
+	// What each activation must become, by the name in act_<name>_op<N>.
+	want := map[string]struct {
 		kind        onnxload.Kind
 		alpha, beta float64
 		slope       []float64
 		reason      string
 	}{
-		{"act_relu6_op7", onnxload.ReLU6, 0, 6, nil, "Clip with min, max attributes"},
-		{"act_relu6_op11", onnxload.ReLU6, 0, 6, nil, "Clip with Constant min, max inputs"},
-		{"act_relu6_op17", onnxload.ReLU6, 0, 6, nil, "Clip with Constant min, max inputs"},
-		{"act_hardtanh_op7", onnxload.Hardtanh, -0.5, 1.25, nil, "nn.Hardtanh(-0.5, 1.25) as Clip attributes"},
-		{"act_hardtanh_op11", onnxload.Hardtanh, -0.5, 1.25, nil, "Clip inputs"},
-		{"act_hardtanh_op17", onnxload.Hardtanh, -0.5, 1.25, nil, "Clip inputs"},
-		{"act_prelu_op7", onnxload.PReLU, 0, 0, []float64{f32(0.1), f32(0.1), f32(0.1), f32(0.1)}, "one slope broadcast to 4 units"},
-		{"act_prelu_op17", onnxload.PReLU, 0, 0, []float64{f32(0.1), f32(0.1), f32(0.1), f32(0.1)}, "one slope broadcast to 4 units"},
-		{"act_prelu4_op7", onnxload.PReLU, 0, 0, []float64{f32(0.1), f32(-0.3), f32(0.6), f32(0.2)}, "a slope per unit"},
-		{"act_prelu4_op17", onnxload.PReLU, 0, 0, []float64{f32(0.1), f32(-0.3), f32(0.6), f32(0.2)}, "a slope per unit"},
-		{"act_hardsigmoid_op7", onnxload.HardSigmoid, f32(1.0 / 6), 0.5, nil, "HardSigmoid, alpha 1/6 as float32"},
-		{"act_hardsigmoid_op17", onnxload.HardSigmoid, f32(1.0 / 6), 0.5, nil, "HardSigmoid"},
-		{"act_hardswish_op7", onnxload.HardSwish, 0, 0, nil, "the HardSigmoid·Mul pattern"},
-		{"act_hardswish_op14", onnxload.HardSwish, 0, 0, nil, "the HardSwish operator"},
-		{"act_hardswish_op17", onnxload.HardSwish, 0, 0, nil, "the HardSwish operator"},
-		{"act_selu_op7", onnxload.SELU, 1.67326319217681884765625, 1.05070102214813232421875, nil, "Selu with ONNX's default alpha, gamma"},
-		{"act_selu_op17", onnxload.SELU, 1.67326319217681884765625, 1.05070102214813232421875, nil, "Selu"},
-		{"act_celu_op12", onnxload.CELU, f32(0.7), 0, nil, "Celu(alpha 0.7); torch 1.13 refuses to export CELU below opset 12"},
-		{"act_celu_op17", onnxload.CELU, f32(0.7), 0, nil, "Celu"},
-		{"act_mish_op7", onnxload.Mish, 0, 0, nil, "the Softplus·Tanh·Mul pattern"},
-		{"act_mish_op17", onnxload.Mish, 0, 0, nil, "the Softplus·Tanh·Mul pattern"},
-		{"act_gelu_tanh_op7", onnxload.GELUTanh, 0, 0, nil, "the Mul/Add/Tanh pattern of approximate=\"tanh\""},
-		{"act_gelu_tanh_op17", onnxload.GELUTanh, 0, 0, nil, "the Mul/Add/Tanh pattern"},
-	} {
+		"relu6":       {onnxload.ReLU6, 0, 6, nil, "Clip(0, 6): min, max attributes before opset 11, Constant inputs from 11"},
+		"hardtanh":    {onnxload.Hardtanh, -0.5, 1.25, nil, "nn.Hardtanh(-0.5, 1.25) as Clip"},
+		"prelu":       {onnxload.PReLU, 0, 0, []float64{f32(0.1), f32(0.1), f32(0.1), f32(0.1)}, "one slope broadcast to 4 units"},
+		"prelu4":      {onnxload.PReLU, 0, 0, []float64{f32(0.1), f32(-0.3), f32(0.6), f32(0.2)}, "a slope per unit"},
+		"hardsigmoid": {onnxload.HardSigmoid, f32(1.0 / 6), 0.5, nil, "HardSigmoid, alpha 1/6 as float32"},
+		"hardswish":   {onnxload.HardSwish, 0, 0, nil, "the HardSigmoid·Mul pattern before opset 14, the HardSwish operator from 14"},
+		"selu":        {onnxload.SELU, 1.67326319217681884765625, 1.05070102214813232421875, nil, "Selu with ONNX's default alpha, gamma"},
+		"celu":        {onnxload.CELU, f32(0.7), 0, nil, "Celu(alpha 0.7); torch 1.13 refuses to export CELU below opset 12"},
+		"mish":        {onnxload.Mish, 0, 0, nil, "the Softplus·Tanh·Mul pattern"},
+		"gelu_tanh":   {onnxload.GELUTanh, 0, 0, nil, "the Mul/Add/Tanh pattern of approximate=\"tanh\""},
+	}
+	b, err := os.ReadFile(filepath.Join(fixtureDir, "act_exports.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rec struct {
+		Exports map[string]struct {
+			Error string `json:"error"`
+		} `json:"exports"`
+	}
+	if err := json.Unmarshal(b, &rec); err != nil {
+		t.Fatal(err)
+	}
+	files := slices.Sorted(maps.Keys(rec.Exports))
+	if len(files) != len(want)*11 {
+		t.Fatalf("%d exports recorded, want %d activations at opsets 7..17", len(files), len(want))
+	}
+	for _, file := range files {
+		if rec.Exports[file].Error != "" {
+			continue
+		}
+		name := strings.TrimPrefix(file[:strings.LastIndex(file, "_op")], "act_")
+		w, ok := want[name]
+		if !ok {
+			t.Errorf("%s: no expectation for activation %q", file, name)
+			continue
+		}
+		c := struct {
+			file        string
+			kind        onnxload.Kind
+			alpha, beta float64
+			slope       []float64
+			reason      string
+		}{file, w.kind, w.alpha, w.beta, w.slope, w.reason}
 		t.Run(c.file, func(t *testing.T) {
 			m, err := onnxload.Open(filepath.Join(fixtureDir, c.file+".onnx"), nil)
 			if err != nil {

@@ -1,13 +1,14 @@
-#!/usr/bin/python3
+# Copyright ©2026 The crease Authors. All rights reserved.
+# Use of this source code is governed by a BSD-style
+# license that can be found in the LICENSE file.
 """Export small MLPs with one activation each, at every opset from 7 to
 17, for onnxload's activation stages (testdata/onnx/act_<name>_op<N>).
 
 Each model is Linear(3, 4) → activation → Linear(4, 2), seeded. Where
 PyTorch refuses to export an activation at an opset, the error is
 recorded in testdata/onnx/act_exports.json instead of a model, and
-act_exports.json lists the op types of every export. A fixture is
-kept for the first opset that exports, for every opset whose nodes
-differ from the opset before, and for opset 17. Each kept model gets the sidecar onnxload's fixture test reads
+act_exports.json lists the op types of every export. Every export is
+kept as a fixture, with the sidecar onnxload's fixture test reads
 (NAME.json): the versions, opset, op types, input rows and, per stage
 in forward order, the module's name as torch.nn.Module.named_modules()
 gives it with its output (forward hooks), computed in float64 by a
@@ -69,7 +70,6 @@ def main():
     versions = {"torch": torch.__version__, "onnx": onnx.__version__}
     exports = {"versions": versions, "exports": {}}
     for name, make in activations:
-        prev = None
         for opset in range(7, 18):
             m = model(make())
             fname = "act_%s_op%d" % (name, opset)
@@ -87,12 +87,6 @@ def main():
             ops = sorted({n.op_type for n in g.graph.node})
             seq = [n.op_type for n in g.graph.node]
             exports["exports"][fname] = {"ops": seq}
-            if seq == prev and opset != 17:
-                # Same nodes as at the opset before: keep only the
-                # export record, not another fixture.
-                os.remove(path)
-                continue
-            prev = seq
             m64 = copy.deepcopy(m).double()
             with torch.no_grad():
                 stages = hooked(m64, x.double())
