@@ -6,9 +6,11 @@ package knn
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"runtime"
+	"slices"
 	"sort"
 	"sync"
 	"sync/atomic"
@@ -243,9 +245,34 @@ type cand struct {
 type rowState struct {
 	top   []float64 // max-heap of the k smallest approximate values
 	cands []cand
+	prune int // prune cands when longer than this (and than 2k+32)
 }
 
 func (s *rowState) threshold() float64 { return s.top[0] }
+
+// offer adds candidate j at approximate value v (within slk of its
+// exact one), prunes the list when it grows long, and returns the change
+// in the list's length.
+func (s *rowState) offer(v float64, j, k int, slk float64) int {
+	s.push(v, k)
+	s.cands = append(s.cands, cand{v, j})
+	if len(s.cands) <= max(2*k+32, s.prune) {
+		return 1
+	}
+	before := len(s.cands)
+	t := s.threshold() + slk
+	keep := s.cands[:0]
+	for _, cd := range s.cands {
+		if cd.v <= t {
+			keep = append(keep, cd)
+		}
+	}
+	s.cands = keep
+	// Prune again when the list has doubled, so that ties, which no
+	// pruning removes, cost linear time.
+	s.prune = 2 * len(keep)
+	return 1 - (before - len(keep))
+}
 
 func (s *rowState) push(v float64, k int) {
 	h := s.top
@@ -284,6 +311,21 @@ func (s *rowState) push(v float64, k int) {
 
 // Search returns the exact k nearest neighbours of every point, as the
 // package-level [Search] does.
+//
+// Each pair of points is compared once: a worker takes a block of rows
+// and the columns from that block on, and offers every product to both
+// rows in a candidate list of its own (n rows per worker), which it
+// prunes to the values within its k-th smallest plus the rounding slack.
+// The lists of all workers are then merged row by row, and the
+// candidates within the merged k-th value plus the slack get their exact
+// distances. A worker's k-th smallest value is never below the merged
+// one, so its pruning keeps every candidate the merge needs.
+//
+// When many points tie (a stage that sends many points to one place),
+// the lists of all rows cannot be pruned; once a worker holds more than
+// maxCands candidates the search starts over one block of rows at a time
+// (searchRows), which compares every pair twice but holds candidates for
+// one block only.
 func (c *Cloud) Search(ctx context.Context, k int) (*Graph, error) {
 	if k < 1 || k >= c.n {
 		return nil, &Error{Row: -1, Col: -1, Reason: fmt.Sprintf("k = %d out of range 1..%d for %d points", k, c.n-1, c.n)}
@@ -295,6 +337,129 @@ func (c *Cloud) Search(ctx context.Context, k int) (*Graph, error) {
 		g.Index[i] = idx[i*k : (i+1)*k : (i+1)*k]
 		g.Dist[i] = dst[i*k : (i+1)*k : (i+1)*k]
 	}
+	err := c.searchPairs(ctx, k, g)
+	if err == errTies {
+		err = c.searchRows(ctx, k, g)
+	}
+	if err != nil {
+		return nil, err
+	}
+	return g, nil
+}
+
+// set makes the k exact candidates of keep that come first, by distance
+// and then index, the neighbours of row i; it reorders keep.
+func (g *Graph) set(i int, keep []cand) {
+	sort.Slice(keep, func(a, b int) bool {
+		if keep[a].v != keep[b].v {
+			return keep[a].v < keep[b].v
+		}
+		return keep[a].j < keep[b].j
+	})
+	for q := range g.K {
+		g.Index[i][q] = keep[q].j
+		g.Dist[i][q] = keep[q].v
+	}
+}
+
+// errTies stops searchPairs when ties keep too many candidates.
+var errTies = errors.New("knn: too many tied candidates")
+
+// maxCands returns the most candidates one worker of searchPairs may
+// hold for n points and k neighbours: a few times what pruning leaves.
+func maxCands(n, k int) int { return 4*n*(k+8) + 1<<16 }
+
+// searchPairs is the search of [Cloud.Search] comparing each pair once.
+func (c *Cloud) searchPairs(ctx context.Context, k int, g *Graph) error {
+	maxNorm := 0.0
+	for _, v := range c.norm {
+		maxNorm = max(maxNorm, v)
+	}
+	// Both the true k-th distance and every candidate's value are within
+	// slk[i] of their approximations.
+	slk := make([]float64, c.n)
+	for i, v := range c.norm {
+		slk[i] = 2 * c.slack * (v + maxNorm)
+	}
+	workers := runtime.GOMAXPROCS(0)
+	bufs := make([][]float64, workers)
+	states := make([][]rowState, workers)
+	nb := (c.n + rowBlock - 1) / rowBlock
+	held := make([]int, workers) // candidates each worker holds, about
+	limit := maxCands(c.n, k)
+	err := parallel(ctx, nb, c.progress, func(w, b int) error {
+		if bufs[w] == nil {
+			bufs[w] = make([]float64, rowBlock*colBlock)
+			states[w] = make([]rowState, c.n)
+		}
+		st := states[w]
+		i0, i1 := b*rowBlock, min((b+1)*rowBlock, c.n)
+		for j0 := i0; j0 < c.n; j0 += colBlock {
+			if err := ctx.Err(); err != nil {
+				return err
+			}
+			j1 := min(j0+colBlock, c.n)
+			gm := c.gram(bufs[w], i0, i1, j0, j1)
+			for r := range i1 - i0 {
+				i := i0 + r
+				row := gm.Data[r*gm.Stride : r*gm.Stride+(j1-j0)]
+				si, ni, slki := &st[i], c.norm[i], slk[i]
+				start := max(0, i+1-j0)
+				norms, sts, slks := c.norm[j0+start:j1], st[j0+start:j1], slk[j0+start:j1]
+				for q, dot := range row[start:] {
+					v := ni + norms[q] - 2*dot
+					if len(si.top) < k || v <= si.top[0]+slki {
+						held[w] += si.offer(v, j0+start+q, k, slki)
+					}
+					if sj := &sts[q]; len(sj.top) < k || v <= sj.top[0]+slks[q] {
+						held[w] += sj.offer(v, i, k, slks[q])
+					}
+				}
+			}
+			if held[w] > limit {
+				return errTies
+			}
+		}
+		return nil
+	})
+	if err != nil {
+		return err
+	}
+	// Merge the workers' lists, rows in blocks on all cores.
+	err = parallel(ctx, nb, nil, func(w, b int) error {
+		var tops []float64
+		var keep []cand
+		for i := b * rowBlock; i < min((b+1)*rowBlock, c.n); i++ {
+			tops = tops[:0]
+			for _, st := range states {
+				if st != nil {
+					tops = append(tops, st[i].top...)
+				}
+			}
+			slices.Sort(tops)
+			t := tops[k-1] + slk[i]
+			keep = keep[:0]
+			for _, st := range states {
+				if st == nil {
+					continue
+				}
+				for _, cd := range st[i].cands {
+					if cd.v <= t {
+						keep = append(keep, cand{c.Dist(i, cd.j), cd.j})
+					}
+				}
+			}
+			g.set(i, keep)
+		}
+		return nil
+	})
+	return err
+}
+
+// searchRows is the search of [Cloud.Search] one block of rows at a
+// time against all columns: every pair is compared twice, but a worker
+// holds candidates for one block of rows only, however many points tie.
+func (c *Cloud) searchRows(ctx context.Context, k int, g *Graph) error {
 	maxNorm := 0.0
 	for _, v := range c.norm {
 		maxNorm = max(maxNorm, v)
@@ -313,6 +478,7 @@ func (c *Cloud) Search(ctx context.Context, k int) (*Graph, error) {
 		for r := range st {
 			st[r].top = st[r].top[:0]
 			st[r].cands = st[r].cands[:0]
+			st[r].prune = 0
 		}
 		for j0 := 0; j0 < c.n; j0 += colBlock {
 			if err := ctx.Err(); err != nil {
@@ -333,21 +499,9 @@ func (c *Cloud) Search(ctx context.Context, k int) (*Graph, error) {
 						continue
 					}
 					v := c.norm[i] + c.norm[j] - 2*dot
-					if len(s.top) == k && v > s.threshold()+slk {
-						continue
+					if len(s.top) < k || v <= s.threshold()+slk {
+						s.offer(v, j, k, slk)
 					}
-					s.push(v, k)
-					s.cands = append(s.cands, cand{v, j})
-				}
-				if len(s.cands) > 4*k+256 {
-					t := s.threshold() + slk
-					keep := s.cands[:0]
-					for _, cd := range s.cands {
-						if cd.v <= t {
-							keep = append(keep, cd)
-						}
-					}
-					s.cands = keep
 				}
 			}
 		}
@@ -362,22 +516,10 @@ func (c *Cloud) Search(ctx context.Context, k int) (*Graph, error) {
 					keep = append(keep, cand{c.Dist(i, cd.j), cd.j})
 				}
 			}
-			sort.Slice(keep, func(a, b int) bool {
-				if keep[a].v != keep[b].v {
-					return keep[a].v < keep[b].v
-				}
-				return keep[a].j < keep[b].j
-			})
-			for q := 0; q < k; q++ {
-				g.Index[i][q] = keep[q].j
-				g.Dist[i][q] = keep[q].v
-			}
+			g.set(i, keep)
 			s.cands = keep
 		}
 		return nil
 	})
-	if err != nil {
-		return nil, err
-	}
-	return g, nil
+	return err
 }

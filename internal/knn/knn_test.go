@@ -10,6 +10,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"sort"
 	"sync"
 	"testing"
@@ -266,5 +267,69 @@ func BenchmarkSearch(b *testing.B) {
 func TestMaxCoordinateAgrees(t *testing.T) {
 	if MaxCoordinate != homology.MaxCoordinate {
 		t.Errorf("knn.MaxCoordinate %g, homology.MaxCoordinate %g", MaxCoordinate, homology.MaxCoordinate)
+	}
+}
+
+// TestSearchTies checks the search when every point ties: a cloud of
+// 3000 copies of one point (a stage that sends a sample to the origin)
+// makes the pairwise search hold too many candidates, and the search
+// falls back to one block of rows at a time; the neighbours of i are the
+// k smallest other indices, at distance 0. It also checks that both
+// searches agree on random clouds.
+func TestSearchTies(t *testing.T) {
+	const n, k = 3000, 3
+	x := mat.NewDense(n, 4, nil)
+	for i := range n {
+		x.SetRow(i, []float64{1, 2, 3, 4})
+	}
+	c, err := NewCloud(x)
+	if err != nil {
+		t.Fatal(err)
+	}
+	g := &Graph{K: k, Index: make([][]int, n), Dist: make([][]float64, n)}
+	for i := range n {
+		g.Index[i], g.Dist[i] = make([]int, k), make([]float64, k)
+	}
+	if err := c.searchPairs(context.Background(), k, g); err != errTies {
+		t.Fatalf("pairwise search of tied points: err = %v, want errTies", err)
+	}
+	got, err := c.Search(context.Background(), k)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, i := range []int{0, 1, 2, 1500, n - 1} {
+		var want []int
+		for j := 0; len(want) < k; j++ {
+			if j != i {
+				want = append(want, j)
+			}
+		}
+		if !slices.Equal(got.Index[i], want) || slices.Max(got.Dist[i]) != 0 {
+			t.Errorf("row %d: %v at %v, want %v at 0", i, got.Index[i], got.Dist[i], want)
+		}
+	}
+	for seed := range uint64(5) {
+		x := randCloud(rand.New(rand.NewPCG(seed, 2)), 700, 8, 0, seed%2 == 1)
+		c, err := NewCloud(x)
+		if err != nil {
+			t.Fatal(err)
+		}
+		a := &Graph{K: 5, Index: make([][]int, 700), Dist: make([][]float64, 700)}
+		b := &Graph{K: 5, Index: make([][]int, 700), Dist: make([][]float64, 700)}
+		for i := range 700 {
+			a.Index[i], a.Dist[i] = make([]int, 5), make([]float64, 5)
+			b.Index[i], b.Dist[i] = make([]int, 5), make([]float64, 5)
+		}
+		if err := c.searchPairs(context.Background(), 5, a); err != nil {
+			t.Fatal(err)
+		}
+		if err := c.searchRows(context.Background(), 5, b); err != nil {
+			t.Fatal(err)
+		}
+		for i := range 700 {
+			if !slices.Equal(a.Index[i], b.Index[i]) || !slices.Equal(a.Dist[i], b.Dist[i]) {
+				t.Fatalf("seed %d row %d: pairwise %v %v, by rows %v %v", seed, i, a.Index[i], a.Dist[i], b.Index[i], b.Dist[i])
+			}
+		}
 	}
 }
