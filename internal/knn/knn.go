@@ -321,7 +321,8 @@ func (s *rowState) push(v float64, k int) {
 // distances. A worker's k-th smallest value is never below the merged
 // one, so its pruning keeps every candidate the merge needs.
 //
-// When many points tie (a stage that sends many points to one place),
+// Clouds of at most pairsFrom points are searched one block of rows at a
+// time. When many points tie (a stage that sends many points to one place),
 // the lists of all rows cannot be pruned; once a worker holds more than
 // maxCands candidates the search starts over one block of rows at a time
 // (searchRows), which compares every pair twice but holds candidates for
@@ -337,8 +338,10 @@ func (c *Cloud) Search(ctx context.Context, k int) (*Graph, error) {
 		g.Index[i] = idx[i*k : (i+1)*k : (i+1)*k]
 		g.Dist[i] = dst[i*k : (i+1)*k : (i+1)*k]
 	}
-	err := c.searchPairs(ctx, k, g)
-	if err == errTies {
+	var err error
+	if c.n <= pairsFrom {
+		err = c.searchRows(ctx, k, g)
+	} else if err = c.searchPairs(ctx, k, g); err == errTies {
 		err = c.searchRows(ctx, k, g)
 	}
 	if err != nil {
@@ -361,6 +364,12 @@ func (g *Graph) set(i int, keep []cand) {
 		g.Dist[i][q] = keep[q].v
 	}
 }
+
+// pairsFrom is the smallest cloud searched pair by pair: on smaller
+// ones the lists per worker and their merge cost more than comparing
+// every pair twice (measured on whole digits traces, 1797 points split
+// into classes of about 180: 10 % slower pair by pair).
+const pairsFrom = 2 * colBlock
 
 // errTies stops searchPairs when ties keep too many candidates.
 var errTies = errors.New("knn: too many tied candidates")
