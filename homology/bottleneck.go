@@ -5,6 +5,7 @@
 package homology
 
 import (
+	"cmp"
 	"math"
 	"slices"
 )
@@ -106,15 +107,7 @@ type coverer struct {
 }
 
 func newCoverer(a, b []Bar) *coverer {
-	byBirth := func(x, y Bar) int {
-		switch {
-		case x.Birth < y.Birth:
-			return -1
-		case x.Birth > y.Birth:
-			return 1
-		}
-		return 0
-	}
+	byBirth := func(x, y Bar) int { return cmp.Compare(x.Birth, y.Birth) }
 	c := &coverer{a: slices.Clone(a), b: slices.Clone(b)}
 	slices.SortFunc(c.a, byBirth)
 	slices.SortFunc(c.b, byBirth)

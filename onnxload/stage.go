@@ -84,6 +84,46 @@ type Stage struct {
 	Slope []float64
 }
 
+// Pieces returns the breakpoints of a piecewise-linear activation
+// stage, strictly increasing and finite, and whether the stage is
+// constant on each of the len(breaks)+1 pieces (−∞, breaks[0]],
+// (breaks[0], breaks[1]], …, (breaks[last], ∞). ok is false for the
+// other kinds, and for a clamp whose bounds leave no piece (Hardtanh
+// with lo ≥ hi, Hardsigmoid with Alpha 0).
+func (s *Stage) Pieces() (breaks []float64, flat []bool, ok bool) {
+	switch s.Kind {
+	case ReLU:
+		return []float64{0}, []bool{true, false}, true
+	case LeakyReLU, PReLU:
+		return []float64{0}, []bool{false, false}, true
+	case ReLU6, Hardtanh, HardSigmoid:
+		lo, hi := s.Alpha, s.Beta
+		switch s.Kind {
+		case ReLU6:
+			lo, hi = 0, 6
+		case HardSigmoid:
+			// max(0, min(1, αx + β)) is flat where αx + β ∉ (0, 1).
+			if s.Alpha == 0 {
+				return nil, nil, false
+			}
+			lo, hi = -s.Beta/s.Alpha, (1-s.Beta)/s.Alpha
+			lo, hi = min(lo, hi), max(lo, hi)
+		}
+		if !(lo < hi) {
+			return nil, nil, false
+		}
+		if !math.IsInf(lo, -1) {
+			breaks, flat = append(breaks, lo), append(flat, true)
+		}
+		flat = append(flat, false)
+		if !math.IsInf(hi, 1) {
+			breaks, flat = append(breaks, hi), append(flat, true)
+		}
+		return breaks, flat, len(breaks) > 0
+	}
+	return nil, nil, false
+}
+
 // Apply writes the stage applied to each row of x into dst. x must be
 // n×s.In; dst must be empty (it is then allocated) or n×s.Out, and must
 // not overlap x. Apply panics if the sizes do not match.

@@ -9,6 +9,7 @@ import (
 	"errors"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"strings"
 	"testing"
 
@@ -237,5 +238,36 @@ func TestStagesBoundMatrices(t *testing.T) {
 	var le *onnxload.LimitError
 	if !errors.As(err, &le) || le.Limit != "MaxElements" {
 		t.Fatalf("got %v, want a LimitError on MaxElements", err)
+	}
+}
+
+// TestStagePieces checks the pieces of each piecewise-linear kind: the
+// breakpoints are where the definitions of the functions (ONNX operator
+// specifications of Relu, LeakyRelu, PRelu, Clip and HardSigmoid) switch
+// formula, and the flat pieces those where the output is constant.
+func TestStagePieces(t *testing.T) {
+	for _, tc := range []struct {
+		name   string
+		s      onnxload.Stage
+		breaks []float64
+		flat   []bool
+		ok     bool
+	}{
+		{"relu", onnxload.Stage{Kind: onnxload.ReLU}, []float64{0}, []bool{true, false}, true},
+		{"leaky", onnxload.Stage{Kind: onnxload.LeakyReLU, Alpha: 0.2}, []float64{0}, []bool{false, false}, true},
+		{"prelu", onnxload.Stage{Kind: onnxload.PReLU, Slope: []float64{0.1}}, []float64{0}, []bool{false, false}, true},
+		{"relu6", onnxload.Stage{Kind: onnxload.ReLU6}, []float64{0, 6}, []bool{true, false, true}, true},
+		{"hardtanh", onnxload.Stage{Kind: onnxload.Hardtanh, Alpha: -0.5, Beta: 1.25}, []float64{-0.5, 1.25}, []bool{true, false, true}, true},
+		{"clip above only", onnxload.Stage{Kind: onnxload.Hardtanh, Alpha: math.Inf(-1), Beta: 2}, []float64{2}, []bool{false, true}, true},
+		// max(0, min(1, x/6 + 1/2)) is 0 below −3 and 1 above 3.
+		{"hardsigmoid", onnxload.Stage{Kind: onnxload.HardSigmoid, Alpha: 1.0 / 6, Beta: 0.5}, []float64{-3, 3}, []bool{true, false, true}, true},
+		{"hardsigmoid flat", onnxload.Stage{Kind: onnxload.HardSigmoid, Alpha: 0, Beta: 0.5}, nil, nil, false},
+		{"empty clip", onnxload.Stage{Kind: onnxload.Hardtanh, Alpha: 1, Beta: 1}, nil, nil, false},
+		{"tanh", onnxload.Stage{Kind: onnxload.Tanh}, nil, nil, false},
+	} {
+		breaks, flat, ok := tc.s.Pieces()
+		if ok != tc.ok || !slices.EqualFunc(breaks, tc.breaks, func(a, b float64) bool { return math.Abs(a-b) < 1e-12 }) || !slices.Equal(flat, tc.flat) {
+			t.Errorf("%s: Pieces() = %v, %v, %v; want %v, %v, %v", tc.name, breaks, flat, ok, tc.breaks, tc.flat, tc.ok)
+		}
 	}
 }

@@ -7,6 +7,7 @@ package trace
 import (
 	"context"
 	"math"
+	"slices"
 	"time"
 
 	"gonum.org/v1/gonum/mat"
@@ -88,46 +89,20 @@ func stageMeasures(ctx context.Context, st *Stage, in, out *mat.Dense, ms *onnxl
 		put("affine.identified", float64(a.Identified))
 		put("affine.forces_identifications", b2f(a.ForcesIdentifications))
 	case onnxload.ReLU, onnxload.ReLU6, onnxload.Hardtanh, onnxload.HardSigmoid, onnxload.LeakyReLU, onnxload.PReLU:
-		// Piecewise-linear activations: ReLU is flat below 0; ReLU6,
-		// Hardtanh and Hardsigmoid clamp at two levels (flat outside
-		// their breakpoints); LeakyReLU and PReLU are injective (no flat
-		// piece, so no face or origin collapse: only the activation
-		// patterns are recorded).
-		var act *relu.Piecewise
-		injective := false
-		switch ms.Kind {
-		case onnxload.ReLU6, onnxload.Hardtanh, onnxload.HardSigmoid:
-			lo, hi := ms.Alpha, ms.Beta
-			if ms.Kind == onnxload.ReLU6 {
-				lo, hi = 0, 6
-			}
-			if ms.Kind == onnxload.HardSigmoid {
-				// max(0, min(1, αx + β)) is flat where αx + β ∉ (0, 1).
-				if ms.Alpha == 0 {
-					break
-				}
-				lo, hi = -ms.Beta/ms.Alpha, (1-ms.Beta)/ms.Alpha
-				lo, hi = min(lo, hi), max(lo, hi)
-			}
-			var breaks []float64
-			var flat []bool
-			if !math.IsInf(lo, -1) {
-				breaks, flat = append(breaks, lo), append(flat, true)
-			}
-			flat = append(flat, false)
-			if !math.IsInf(hi, 1) {
-				breaks, flat = append(breaks, hi), append(flat, true)
-			}
-			if len(breaks) > 0 && lo < hi {
-				act = &relu.Piecewise{Breaks: breaks, Flat: flat}
-			}
-		case onnxload.LeakyReLU, onnxload.PReLU:
-			act = &relu.Piecewise{Breaks: []float64{0}, Flat: []bool{false, false}}
-			injective = true
-		}
-		if ms.Kind != onnxload.ReLU && act == nil {
+		// Piecewise-linear activations (onnxload.Stage.Pieces): where no
+		// piece is flat (LeakyReLU, PReLU, both injective) there is no
+		// face or origin collapse, and only the activation patterns are
+		// recorded. Plain ReLU keeps relu.Fold's default, which also
+		// checks the outputs against max(x, 0).
+		breaks, flat, ok := ms.Pieces()
+		if !ok {
 			break
 		}
+		var act *relu.Piecewise
+		if ms.Kind != onnxload.ReLU {
+			act = &relu.Piecewise{Breaks: breaks, Flat: flat}
+		}
+		injective := !slices.Contains(flat, true)
 		f, err := relu.Fold(in, out, labels, &relu.FoldSettings{Activation: act})
 		if err != nil {
 			return 0, 0, err

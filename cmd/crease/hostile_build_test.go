@@ -213,21 +213,27 @@ func smallWeights(layer, i, j int) float64 {
 	return math.Sin(float64(1+layer*97+i*13+j*7)) * 0.8
 }
 
+// opChain is a graph named name of n nodes of type op in a chain from x
+// to y, each taking the one before and the inputs extra.
+func opChain(name, op string, n int, extra ...string) []chunk {
+	g := []chunk{pbStr(2, name)}
+	prev := "x"
+	for k := range n {
+		out := fmt.Sprintf("h%d", k)
+		if k == n-1 {
+			out = "y"
+		}
+		g = append(g, onnxNode(op, fmt.Sprintf("/%s%d/%s", strings.ToLower(op), k, op), append([]string{prev}, extra...), []string{out}))
+		prev = out
+	}
+	return g
+}
+
 // addChain is a graph of adds Add nodes on width w, each adding a
 // broadcast bias of w values, a chain that becomes one w×w affine
 // stage per Add.
 func addChain(w, adds int) []chunk {
-	g := []chunk{pbStr(2, "adds")}
-	prev := "x"
-	for k := range adds {
-		out := fmt.Sprintf("h%d", k)
-		if k == adds-1 {
-			out = "y"
-		}
-		g = append(g, onnxNode("Add", fmt.Sprintf("/add%d/Add", k), []string{prev, "c"}, []string{out}))
-		prev = out
-	}
-	return append(g,
+	return append(opChain("adds", "Add", adds, "c"),
 		onnxDoubles("c", []int64{int64(w)}, make([]float64, w)),
 		onnxValue(11, "x", 11, -1, int64(w)),
 		onnxValue(12, "y", 11, -1, int64(w)))
@@ -235,17 +241,7 @@ func addChain(w, adds int) []chunk {
 
 // reluChain is a graph of n Relu nodes in a chain on width 2.
 func reluChain(n int) []chunk {
-	g := []chunk{pbStr(2, "relus")}
-	prev := "x"
-	for k := range n {
-		out := fmt.Sprintf("h%d", k)
-		if k == n-1 {
-			out = "y"
-		}
-		g = append(g, onnxNode("Relu", fmt.Sprintf("/r%d/Relu", k), []string{prev}, []string{out}))
-		prev = out
-	}
-	return append(g, onnxValue(11, "x", 11, -1, 2), onnxValue(12, "y", 11, -1, 2))
+	return append(opChain("relus", "Relu", n), onnxValue(11, "x", 11, -1, 2), onnxValue(12, "y", 11, -1, 2))
 }
 
 // reluGraphWith is a one-Relu graph of width 2 followed by extra
