@@ -105,4 +105,19 @@ func main() {
 		}
 		fmt.Println()
 	}
+	var big, small cell
+	for _, name := range order {
+		for n, cl := range cells[name] {
+			t := &big
+			if n < 150 {
+				t = &small
+			}
+			t.right += cl.right
+			t.sure += cl.sure
+			t.wrongSure += cl.wrongSure
+			t.total += cl.total
+		}
+	}
+	fmt.Printf("\nn ≥ 150: %d of %d right (%.1f %%), %d right and sure, %d sure and wrong; n = 60: %d of %d right, %d sure and wrong\n",
+		big.right, big.total, 100*float64(big.right)/float64(big.total), big.sure, big.wrongSure, small.right, small.total, small.wrongSure)
 }
