@@ -13,6 +13,8 @@ require (
 	gorgonia.org/tensor v0.9.24
 )
 
+require golang.org/x/tools v0.41.0 // indirect
+
 require (
 	codeberg.org/go-fonts/liberation v0.5.0 // indirect
 	codeberg.org/go-latex/latex v0.2.0 // indirect

@@ -133,3 +133,13 @@ func infNorm(a []float64) float64 {
 	}
 	return m
 }
+
+// minimizer is the solver fitLogistic uses; BenchmarkSolvers swaps in
+// gonum's optimize.LBFGS to compare the two. Measured 2026-12-03 on 2
+// cores, both reach the same objective to 12 significant digits, and
+// neither is faster throughout: ours takes 0.91× gonum's time at 500
+// points in R¹⁶, 0.98× at 2000 in R⁶⁴ and 1.05× at 5000 in R⁶⁴. Ours is
+// kept because it stops on the context and because gonum's optimize
+// package brings its CMA-ES dependencies (stat/distmv and
+// golang.org/x/tools) into every build of package trace.
+var minimizer = lbfgs

@@ -342,7 +342,7 @@ func fitLogistic(ctx context.Context, s *sample, train []int, r ProbeSettings) (
 		return f
 	}
 	theta := make([]float64, k*(d+1))
-	iter, converged, err := lbfgs(ctx, eval, theta, r.GradTol*(1+C*float64(n)), r.MaxIter)
+	iter, converged, err := minimizer(ctx, eval, theta, r.GradTol*(1+C*float64(n)), r.MaxIter)
 	if err != nil {
 		return nil, err
 	}
