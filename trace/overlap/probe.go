@@ -148,8 +148,9 @@ func Folds(labels []int, k int, seed uint64) ([]int, error) {
 // Folds come from [Folds]. In each fold the features are standardised
 // with the training points' mean and population standard deviation (a
 // column whose deviation is below 10·ε·max(1, |mean|) is only centred),
-// the model is fitted from zero weights by L-BFGS (our own; see lbfgs) on the
-// objective documented at [ProbeSettings.C], and a held-out point is
+// the model is fitted from zero weights by L-BFGS (gonum's optimize
+// package; see lbfgs) on the objective documented at [ProbeSettings.C],
+// and a held-out point is
 // predicted as the class of largest score (the smallest index on ties).
 // Only the fold assignment depends on the seed; the fit is deterministic.
 func Probe(ctx context.Context, x mat.Matrix, labels []int, set *ProbeSettings) (*ProbeResult, error) {

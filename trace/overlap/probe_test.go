@@ -6,6 +6,7 @@ package overlap
 
 import (
 	"context"
+	"errors"
 	"math"
 	"reflect"
 	"testing"
@@ -78,6 +79,35 @@ func TestLBFGSQuadratic(t *testing.T) {
 		if math.Abs(v-1) > 1e-9 {
 			t.Errorf("x[%d] = %v, want 1", i, v)
 		}
+	}
+}
+
+// TestLBFGSCancelled checks that a done context stops the fit with the
+// context's error.
+func TestLBFGSCancelled(t *testing.T) {
+	ctx, cancel := context.WithCancel(context.Background())
+	calls := 0
+	eval := func(g, x []float64) float64 {
+		calls++
+		if calls == 3 {
+			cancel()
+		}
+		var f float64
+		for i, v := range x {
+			f += float64(i+1) * (v - 1) * (v - 1)
+			if g != nil {
+				g[i] = 2 * float64(i+1) * (v - 1)
+			}
+		}
+		return f
+	}
+	x := make([]float64, 50)
+	_, ok, err := lbfgs(ctx, eval, x, 1e-300, 500)
+	if !errors.Is(err, context.Canceled) || ok {
+		t.Fatalf("converged %v, err %v; want context.Canceled", ok, err)
+	}
+	if calls > 10 {
+		t.Errorf("%d evaluations after cancelling at the 3rd", calls-3)
 	}
 }
 

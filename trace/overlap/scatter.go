@@ -177,3 +177,11 @@ func nc1(s *sample) (*NC1Result, error) {
 	res.Value = tr / C
 	return res, nil
 }
+
+func dot(a, b []float64) float64 {
+	var t float64
+	for i, v := range a {
+		t += v * b[i]
+	}
+	return t
+}
