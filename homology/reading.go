@@ -25,12 +25,15 @@ const (
 	// Scientific Reports 13 (2023), with a Bonferroni correction over the
 	// bars of that dimension. Components (H0) count when two groups of
 	// points, each connected at its own scale, join only at a multiple
-	// RatioH0 of that scale. A dimension is undetermined when a bar lies
-	// close to the significance bound, when the sample gives no room
-	// for a cycle of that dimension to show, or when its count changes
-	// once each component is whitened along its principal axes (a linear
+	// RatioH0 of that scale. When the cloud reads some class above H0
+	// and is not close to isotropic, dimensions d ≥ 1 are counted again
+	// on each component whitened along its principal axes (a linear
 	// change of coordinates, which changes the Rips filtration but not
-	// the topology). It is the zero value.
+	// the topology), and that count is given. A dimension is
+	// undetermined when a bar lies close to the significance bound, when
+	// the sample gives no room for a cycle of that dimension to show, or
+	// when the whitened count differs from the count in the cloud's own
+	// coordinates. It is the zero value.
 	RuleRatio Rule = iota
 	// RuleRelative reads Betti numbers at ε = Scale × diameter.
 	RuleRelative
@@ -81,7 +84,7 @@ func (r *Rule) UnmarshalText(b []byte) error {
 func (r Rule) Describe() string {
 	switch r {
 	case RuleRatio:
-		return "bars whose death/birth ratio is significant (Bobrowski–Skraba universal null, Bonferroni at 5 %); components that join only at 2.5× their own connection scale; a count that changes when each component is rescaled along its principal axes is left undetermined"
+		return "bars whose death/birth ratio is significant (Bobrowski–Skraba universal null, Bonferroni at 5 %); components that join only at 2.5× their own connection scale; cycles counted in each component's principal coordinates rescaled to unit spread, and left undetermined where that count differs from the raw one"
 	case RuleRelative:
 		return "bars alive at a fixed fraction of each cloud's diameter"
 	case RulePersistence:
@@ -131,8 +134,17 @@ const (
 	// undetermined.
 	ratioGray = 30
 	// ratioBest: the best reading also counts bars with p-values below
-	// ratioBest × α / N, marking the dimension undetermined.
-	ratioBest = 5
+	// ratioBest / N, marking the dimension undetermined: bars at least
+	// as significant as one that one noise bar in two would beat, so
+	// more likely signal than noise.
+	ratioBest = 0.25
+	// ratioReach and ratioReachSmall cap the barcode threshold of
+	// dimensions 2 and up, as fractions of the enclosing radius, for
+	// clouds of more than and at most ratioSmall points: the voids of a
+	// sparse sample are born late, and a small cloud affords the room.
+	ratioReach      = 0.6
+	ratioReachSmall = 0.8
+	ratioSmall      = 200
 	// ratioMinPoints is the fewest points for a confident reading of a
 	// dimension d ≥ 1 (on the textbook suite, samples of 60 points gave
 	// confident wrong readings of H1).
@@ -224,6 +236,11 @@ type Evidence struct {
 	Bound float64
 	// Why says why the dimension is undetermined; empty when confident.
 	Why string
+	// Whitened is true when the count was read on each component in its
+	// principal coordinates rescaled to unit spread (RuleRatio on a
+	// cloud that is not close to isotropic); Lo and Hi are then in units
+	// of that spread.
+	Whitened bool
 }
 
 // readResolved holds validated ReadSettings.
@@ -421,29 +438,28 @@ func readScale(ctx context.Context, c *cloud, r readResolved) (*Reading, error) 
 	return rd, nil
 }
 
-// readRatio reads by RuleRatio, then checks every dimension d ≥ 1 it
-// is confident of against the anisotropy guard: each component, whitened
-// along its principal axes (whiten), is read again, and a dimension
-// whose count there differs is left undetermined. The guard runs when
-// some confident count is above zero: the artefacts of a stretch are
-// classes that are not there (on the textbook suite no confident zero
-// was overturned by whitening), and most clouds a trace meets read
-// zero above H0, so the second reading is spared there. A linear map of the
-// sample changes the Rips filtration (a stretched circle is an ellipse,
-// whose Rips complexes are 2-spheres at some scales: Adamaszek, Adams
-// and Reddy, J. Topol. Anal. 11, 2019), but not the
-// topology of the space the sample comes from; a count that a linear
-// change of coordinates overturns is not one the sample decides.
+// readRatio reads by RuleRatio. It reads β₀ and the barcode in the
+// cloud's own coordinates, then, unless the cloud is close to isotropic
+// already, reads each dimension d ≥ 1 again on each component in its
+// principal coordinates rescaled to unit spread (whiten) and gives that
+// count, the sum over the components. A linear map of the sample
+// changes its Rips filtration (a stretched circle is an ellipse, whose
+// Rips complexes are 2-spheres at some scales: Adamaszek, Adams and
+// Reddy, J. Topol. Anal. 11, 2019), but not the topology of the space
+// the sample comes from; whitening undoes a stretch, so the count does
+// not depend on one. A dimension is confident only when both readings
+// are and agree: a count that a linear change of coordinates overturns
+// is not one the sample decides. A cloud that reads no class above H0
+// in its own coordinates keeps that reading: whitening also stretches
+// the thin directions of arcs and blobs, and on the textbook suite it
+// found loops there that are not there; a stretch, for its part, adds
+// classes (the voids of an ellipse) rather than hiding every one.
 func readRatio(ctx context.Context, c *cloud, r readResolved) (*Reading, error) {
 	rd, groups, err := ratioCore(ctx, c, r)
 	if err != nil || r.MaxDim < 1 || groups == nil {
 		return rd, err
 	}
-	sure := false
-	for d := 1; d <= r.MaxDim; d++ {
-		sure = sure || (rd.Confident[d] && rd.Betti[d] > 0)
-	}
-	if !sure {
+	if !slices.ContainsFunc(rd.Betti[1:], func(b int) bool { return b > 0 }) {
 		return rd, nil
 	}
 	var parts []*cloud
@@ -456,24 +472,45 @@ func readRatio(ctx context.Context, c *cloud, r readResolved) (*Reading, error) 
 		parts = append(parts, w)
 		cond = max(cond, k)
 	}
-	if cond < whitenMinCond {
+	if cond < whitenMinCond || len(parts) == 0 {
 		return rd, nil
 	}
-	sum := make([]int, r.MaxDim+1)
-	for _, w := range parts {
-		wr, _, err := ratioCore(ctx, w, r)
-		if err != nil {
+	reads := make([]*Reading, len(parts))
+	for i, w := range parts {
+		if reads[i], _, err = ratioCore(ctx, w, r); err != nil {
 			return nil, err
-		}
-		for d := 1; d <= r.MaxDim; d++ {
-			sum[d] += wr.Betti[d]
 		}
 	}
 	for d := 1; d <= r.MaxDim; d++ {
-		if rd.Confident[d] && sum[d] != rd.Betti[d] {
-			rd.Confident[d] = false
-			rd.Evidence[d].Why = fmt.Sprintf("anisotropy: with each component rescaled along its principal axes (condition number %.3g) the reading of H%d is %d, not %d", cond, d, sum[d], rd.Betti[d])
+		raw, rawSure := rd.Betti[d], rd.Confident[d]
+		rawWhy := rd.Evidence[d].Why
+		sum, sure := 0, true
+		ev := Evidence{Lo: 0, Hi: math.Inf(1), Weakest: math.NaN(), Strongest: math.NaN(), Bound: math.Inf(1), Whitened: true}
+		for _, wr := range reads {
+			sum += wr.Betti[d]
+			sure = sure && wr.Confident[d]
+			we := wr.Evidence[d]
+			ev.Lo, ev.Hi = max(ev.Lo, we.Lo), min(ev.Hi, we.Hi)
+			ev.Bound = min(ev.Bound, we.Bound)
+			if !math.IsNaN(we.Weakest) && (math.IsNaN(ev.Weakest) || we.Weakest > ev.Weakest) {
+				ev.Weakest = we.Weakest
+			}
+			if !math.IsNaN(we.Strongest) && (math.IsNaN(ev.Strongest) || we.Strongest < ev.Strongest) {
+				ev.Strongest = we.Strongest
+			}
+			if ev.Why == "" {
+				ev.Why = we.Why
+			}
 		}
+		switch {
+		case sum != raw:
+			ev.Why = fmt.Sprintf("anisotropy: H%d reads %d in each component's principal coordinates (condition number %.3g), the count given, and %d in the cloud's own", d, sum, cond, raw)
+		case ev.Why == "" && !rawSure:
+			ev.Why = rawWhy
+		}
+		rd.Betti[d] = sum
+		rd.Confident[d] = sure && rawSure && sum == raw
+		rd.Evidence[d] = ev
 	}
 	return rd, nil
 }
@@ -509,7 +546,11 @@ func ratioCore(ctx context.Context, c *cloud, r readResolved) (*Reading, [][]int
 		// the sample's own noise have died: read them up to ratioHigh
 		// times that scale, on the collapsed edges.
 		_, _, fill1, _ := readCycles(bc.Bars[1], thr, bc.Truncated, r.Alpha)
-		t2 := min(thr, ratioHigh*max(fill1, conn), 0.6*enc)
+		reach := ratioReach
+		if n <= ratioSmall {
+			reach = ratioReachSmall
+		}
+		t2 := min(thr, ratioHigh*max(fill1, conn), reach*enc)
 		sp, err := CollapseEdges(ctx, t, t2)
 		if err != nil {
 			return nil, nil, err
@@ -600,7 +641,7 @@ func readCycles(bars []Bar, thr float64, truncated bool, alpha float64) (int, Ev
 		mean := (sum - ll[i] + ratioPrior*ratioPriorWeight) / float64(n-1+ratioPriorWeight)
 		l := ll[i] - mean - eulerGamma
 		p := math.Exp(-math.Exp(l))
-		if p < ratioBest*bound {
+		if p < max(bound, ratioBest/float64(n)) {
 			count++
 			if p >= bound && gray == "" {
 				gray = fmt.Sprintf("a bar [%.3g, %.3g) has p = %.2g, above the bound %.2g; counted as the best guess", b.Birth, b.Death, p, bound)

@@ -10,18 +10,21 @@ import (
 	"gonum.org/v1/gonum/mat"
 )
 
-// Whitening of the anisotropy guard of RuleRatio.
+// Whitening of RuleRatio's reading of dimensions d ≥ 1.
 const (
 	// whitenVariance is the share of the variance whose principal axes
-	// the guard rescales; the axes of the rest (the noise floor) keep
+	// whiten rescales; the axes of the rest (the noise floor) keep
 	// their relative size, so that noise is not blown up.
 	whitenVariance = 1 - 1e-3
-	// whitenMaxGain is the largest factor by which the guard stretches
-	// an axis relative to the widest one.
-	whitenMaxGain = 100
+	// whitenMaxGain is the largest factor by which whiten stretches an
+	// axis relative to the widest one: enough to undo a linear map of
+	// condition number 10 (the stretches of the textbook suite), while
+	// an axis of noise is amplified at most that much (ours; on the
+	// suite, 100 read no better).
+	whitenMaxGain = 10
 	// whitenMinCond is the least condition number (widest over
 	// narrowest standard deviation among the rescaled axes) at which
-	// the guard runs; below it rescaling changes distances by less
+	// the whitened reading is made; below it rescaling changes distances by less
 	// than the factor the ratio rule already tolerates.
 	whitenMinCond = 1.5
 )

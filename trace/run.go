@@ -425,5 +425,5 @@ func evidenceOf(ev homology.Evidence) Evidence {
 		}
 		return &x
 	}
-	return Evidence{Lo: ev.Lo, Hi: num(ev.Hi), Weakest: num(ev.Weakest), Strongest: num(ev.Strongest), Bound: ev.Bound, Why: ev.Why}
+	return Evidence{Lo: ev.Lo, Hi: num(ev.Hi), Weakest: num(ev.Weakest), Strongest: num(ev.Strongest), Bound: ev.Bound, Why: ev.Why, Whitened: ev.Whitened}
 }

@@ -161,6 +161,10 @@ type Evidence struct {
 	Bound float64 `json:"bound"`
 	// Why says why the dimension is undetermined; empty when confident.
 	Why string `json:"why,omitempty"`
+	// Whitened is true when the count was read on each component in its
+	// principal coordinates rescaled to unit spread (ScaleRatio); Lo
+	// and Hi are then in units of that spread.
+	Whitened bool `json:"whitened,omitempty"`
 }
 
 // Bar is one persistence interval [Birth, Death). Death is +Inf for an

@@ -43,7 +43,12 @@ var Embeddings = []Embedding{{D: 8, Cond: 1}, {D: 8, Cond: 10}, {D: 64, Cond: 1}
 // sizes: each space, size and embedding once (RP² over Z/2 and Z/3),
 // with noise of 0, 2.5 % or 5 % of the feature size in turn. The seeds
 // are ours and fixed.
-func Suite(sizes []int) []Case {
+func Suite(sizes []int) []Case { return SuiteSeeded(0, sizes) }
+
+// SuiteSeeded is Suite with every seed offset by base: the same cases
+// drawn afresh, to check that what was measured on Suite holds on
+// samples it was not measured on.
+func SuiteSeeded(base uint64, sizes []int) []Case {
 	var out []Case
 	for si, sp := range All() {
 		for _, n := range sizes {
@@ -54,7 +59,7 @@ func Suite(sizes []int) []Case {
 					fields = []int{2, 3}
 				}
 				for _, p := range fields {
-					out = append(out, Case{Space: sp, N: n, Noise: noise, Embed: e, Field: p, Seed: uint64(1000*si + 10*ei + n)})
+					out = append(out, Case{Space: sp, N: n, Noise: noise, Embed: e, Field: p, Seed: base + uint64(1000*si+10*ei+n)})
 				}
 			}
 		}
