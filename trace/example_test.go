@@ -246,3 +246,21 @@ func ExampleSettings() {
 	// maxdim 1, rule ratio, seed 1, glue tau 0.1, overlap k 5; input reads (1,0?)
 	// maxdim 0, rule ratio, seed 1, glue tau 0.1, overlap k 5; input reads (1)
 }
+
+// ExampleLinearCKA compares two representations of the same four
+// points: a rotated, scaled and shifted copy aligns perfectly; a copy
+// with one coordinate dropped less so.
+func ExampleLinearCKA() {
+	x := mat.NewDense(4, 2, []float64{0, 0, 1, 0, 0, 2, 1, 3})
+	rot := mat.NewDense(4, 2, nil)
+	for i := range 4 {
+		a, b := x.At(i, 0), x.At(i, 1)
+		rot.Set(i, 0, 3*(0.6*a-0.8*b)+5)
+		rot.Set(i, 1, 3*(0.8*a+0.6*b)-1)
+	}
+	first := x.Slice(0, 4, 0, 1)
+	same, _ := trace.LinearCKA(x, rot)
+	part, _ := trace.LinearCKA(x, first)
+	fmt.Printf("rotated %.3f, one coordinate %.3f\n", same, part)
+	// Output: rotated 1.000, one coordinate 0.182
+}

@@ -30,35 +30,59 @@ const Version = "0.1.0"
 // per node, or fused layers when Settings.Fuse is set), runs the trace and records the
 // file name and SHA-256 in Trace.Model.
 func RunFile(ctx context.Context, path string, s *Sample, set *Settings) (*Trace, error) {
-	// Decode first: onnxload bounds what it reads; only then hash the
-	// file, streaming.
-	m, err := onnxload.Open(path, nil)
+	stages, info, err := loadModel(path, set != nil && set.Fuse)
 	if err != nil {
 		return nil, err
-	}
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, err
-	}
-	h := sha256.New()
-	_, err = io.Copy(h, f)
-	f.Close()
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
-	}
-	fuse := set != nil && set.Fuse
-	stages, err := m.Stages(&onnxload.StageSettings{FuseAffine: fuse})
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
 	}
 	if err := checkWidth(s, stages, path); err != nil {
 		return nil, err
 	}
 	t, err := Run(ctx, stages, s, set)
 	if t != nil {
-		t.Model = ModelInfo{File: path, SHA256: hex.EncodeToString(h.Sum(nil))}
+		t.Model = info
 	}
 	return t, err
+}
+
+// prepare resolves set (nil means DefaultSettings) and checks that s
+// is a sample with enough points per class.
+func prepare(s *Sample, set *Settings) (Settings, error) {
+	if set == nil {
+		set = DefaultSettings()
+	}
+	rs, err := set.resolve()
+	if err != nil {
+		return rs, err
+	}
+	if s == nil || s.X == nil {
+		return rs, errors.New("trace: no sample")
+	}
+	return rs, s.checkCounts()
+}
+
+// loadModel decodes the ONNX file at path into stages and hashes it.
+func loadModel(path string, fuse bool) ([]onnxload.Stage, ModelInfo, error) {
+	// Decode first: onnxload bounds what it reads; only then hash the
+	// file, streaming.
+	m, err := onnxload.Open(path, nil)
+	if err != nil {
+		return nil, ModelInfo{}, err
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, ModelInfo{}, err
+	}
+	h := sha256.New()
+	_, err = io.Copy(h, f)
+	f.Close()
+	if err != nil {
+		return nil, ModelInfo{}, fmt.Errorf("%s: %w", path, err)
+	}
+	stages, err := m.Stages(&onnxload.StageSettings{FuseAffine: fuse})
+	if err != nil {
+		return nil, ModelInfo{}, fmt.Errorf("%s: %w", path, err)
+	}
+	return stages, ModelInfo{File: path, SHA256: hex.EncodeToString(h.Sum(nil))}, nil
 }
 
 // MaxProbeWork bounds the linear probe's work per gradient evaluation,
@@ -91,17 +115,8 @@ type task struct {
 // ctx.Err().
 func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings) (*Trace, error) {
 	start := time.Now()
-	if set == nil {
-		set = DefaultSettings()
-	}
-	rs, err := set.resolve()
+	rs, err := prepare(s, set)
 	if err != nil {
-		return nil, err
-	}
-	if s == nil || s.X == nil {
-		return nil, errors.New("trace: no sample")
-	}
-	if err := s.checkCounts(); err != nil {
 		return nil, err
 	}
 	if len(stages)+1 > MaxStages {
@@ -273,8 +288,8 @@ func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings)
 				} else {
 					left[tk.stage]--
 					done++
-					if set.Progress != nil {
-						set.Progress(Progress{Done: done, Total: len(tasks), Stage: tk.stage, Part: part})
+					if rs.Progress != nil {
+						rs.Progress(Progress{Done: done, Total: len(tasks), Stage: tk.stage, Part: part})
 					}
 				}
 				mu.Unlock()
@@ -295,7 +310,7 @@ func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings)
 	if firstErr != nil {
 		return nil, firstErr
 	}
-	if set.Timing {
+	if rs.Timing {
 		timing.Total = time.Since(start)
 		timing.Stages = stageTime
 		tr.Timing = &timing

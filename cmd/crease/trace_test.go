@@ -170,6 +170,36 @@ func TestCompareCommand(t *testing.T) {
 	}
 }
 
+// TestCompareModelsCommand compares the three-ring classifier of
+// testdata/compare with its float16 copy (alike: exit 0), its pruned copy
+// (different: exit 1, naming the stage) and with bad input (exit 2).
+func TestCompareModelsCommand(t *testing.T) {
+	dir := "../../testdata/compare/"
+	for _, tc := range []struct {
+		name string
+		args []string
+		code int
+		want string
+	}{
+		{"float16", []string{dir + "base.onnx", dir + "fp16.onnx", dir + "rings3.csv", "--replicates", "4"}, 0, "verdict: alike"},
+		{"pruned", []string{dir + "base.onnx", dir + "pruned.onnx", dir + "rings3.csv", "--replicates", "4"}, 1, "verdict: different; stage 1 / 1"},
+		{"tolerance on models", []string{dir + "base.onnx", dir + "fp16.onnx", dir + "rings3.csv", "--tol", "1"}, 2, ""},
+		{"wrong width", []string{dir + "base.onnx", digitsModel, dir + "rings3.csv"}, 2, ""},
+		{"missing data", []string{dir + "base.onnx", dir + "fp16.onnx", dir + "none.csv"}, 2, ""},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			var stdout, stderr bytes.Buffer
+			code := creaseMain(context.Background(), append([]string{"compare"}, tc.args...), nil, &stdout, &stderr)
+			if code != tc.code {
+				t.Errorf("exit %d, want %d (stderr %q)", code, tc.code, stderr.String())
+			}
+			if !strings.Contains(stdout.String(), tc.want) {
+				t.Errorf("stdout %q lacks %q", stdout.String(), tc.want)
+			}
+		})
+	}
+}
+
 // TestTraceCommandOptions checks the hop-count metric, the long CSV and
 // NPY input on the digits sample.
 func TestTraceCommandOptions(t *testing.T) {
