@@ -17,10 +17,12 @@ import (
 // zero value: any change counts as divergence.
 type CompareSettings struct {
 	// Tol is the largest bottleneck distance or absolute change of a
-	// scalar measure that does not count as divergence.
+	// scalar measure that does not count as divergence; +Inf leaves
+	// them unjudged.
 	Tol float64
 	// BettiTol is the largest absolute change of a Betti number that
-	// does not count as divergence.
+	// does not count as divergence; negative leaves Betti numbers
+	// unjudged.
 	BettiTol int
 }
 
@@ -36,11 +38,19 @@ type Comparison struct {
 	Diverge int
 	// Reason says what diverged first ("" when Diverge is −1).
 	Reason string
+	// Unmatched lists the stages of A ("A 3") or B ("B 4") that match
+	// no stage of the other trace.
+	Unmatched []string
+	// Warnings name what makes the traces hard to compare: settings or
+	// samples that differ.
+	Warnings []string
 }
 
 // StageComparison compares one stage of two traces.
 type StageComparison struct {
-	Index int
+	// Index and IndexB are the stage's index in A and in B (stages are
+	// matched by structure, see CompareModels).
+	Index, IndexB int
 	// KindA and KindB are the stage kinds in each trace.
 	KindA, KindB string
 	// Whole compares the whole sample; Classes compares each class
@@ -85,11 +95,13 @@ func Compare(a, b *Trace, set *CompareSettings) (*Comparison, error) {
 	if common == 0 && len(a.Sample.Classes) > 0 {
 		return nil, fmt.Errorf("trace: the traces share no class")
 	}
-	out := &Comparison{Settings: *set, Diverge: -1}
-	n := min(len(a.Stages), len(b.Stages))
-	for i := range n {
-		sa, sb := &a.Stages[i], &b.Stages[i]
-		sc := StageComparison{Index: i, KindA: sa.Kind, KindB: sb.Kind, Measures: map[string]float64{}}
+	out := &Comparison{Settings: *set, Diverge: -1, Warnings: compareWarnings(a, b)}
+	pairs, unmatched := matchStages(a.Stages, b.Stages)
+	out.Unmatched = unmatched
+	for _, p := range pairs {
+		i := p[0]
+		sa, sb := &a.Stages[p[0]], &b.Stages[p[1]]
+		sc := StageComparison{Index: p[0], IndexB: p[1], KindA: sa.Kind, KindB: sb.Kind, Measures: map[string]float64{}}
 		reason := ""
 		note := func(r string) {
 			if reason == "" {
@@ -112,7 +124,7 @@ func Compare(a, b *Trace, set *CompareSettings) (*Comparison, error) {
 			for d := range min(len(ga.Betti), len(gb.Betti)) {
 				db := gb.Betti[d] - ga.Betti[d]
 				gc.Betti = append(gc.Betti, db)
-				if abs(db) > set.BettiTol {
+				if set.BettiTol >= 0 && abs(db) > set.BettiTol {
 					note(fmt.Sprintf("%s: β%d %d → %d", name, d, ga.Betti[d], gb.Betti[d]))
 				}
 			}
@@ -162,10 +174,44 @@ func Compare(a, b *Trace, set *CompareSettings) (*Comparison, error) {
 		}
 		out.Stages = append(out.Stages, sc)
 	}
-	if len(a.Stages) != len(b.Stages) && out.Diverge < 0 {
-		out.Diverge, out.Reason = n, fmt.Sprintf("the traces have %d and %d stages", len(a.Stages), len(b.Stages))
+	if len(unmatched) > 0 && out.Diverge < 0 {
+		out.Diverge, out.Reason = len(a.Stages), fmt.Sprintf("stages without a partner: %s", unmatched)
 	}
 	return out, nil
+}
+
+// compareWarnings names the settings and sample facts in which a and b
+// differ.
+func compareWarnings(a, b *Trace) []string {
+	var w []string
+	sa, sb := a.Settings, b.Settings
+	sa.Progress, sb.Progress = nil, nil
+	type field struct {
+		name string
+		x, y any
+	}
+	for _, f := range []field{
+		{"top_dim", sa.MaxDim, sb.MaxDim}, {"rule", sa.Rule, sb.Rule}, {"alpha", sa.Alpha, sb.Alpha},
+		{"scale_fraction", sa.Scale, sb.Scale}, {"persistence_fraction", sa.Persistence, sb.Persistence},
+		{"stop_at_fraction", sa.MaxThreshold, sb.MaxThreshold}, {"graph_k", sa.K, sb.K}, {"hops", sa.Hops, sb.Hops},
+		{"per_class_cap", sa.Cap, sb.Cap}, {"seed", sa.Seed, sb.Seed}, {"glue_tau", sa.GlueTau, sb.GlueTau},
+		{"overlap_k", sa.OverlapK, sb.OverlapK}, {"skip_probe", sa.SkipProbe, sb.SkipProbe}, {"fuse", sa.Fuse, sb.Fuse},
+		{"skip_whole", sa.SkipWhole, sb.SkipWhole},
+	} {
+		if f.x != f.y {
+			w = append(w, fmt.Sprintf("settings differ: %s %v vs %v", f.name, f.x, f.y))
+		}
+	}
+	pa, pb := a.Sample, b.Sample
+	switch {
+	case pa.Source != pb.Source || pa.Rows != pb.Rows || pa.Width != pb.Width:
+		w = append(w, fmt.Sprintf("samples differ: %q (%d rows, width %d) vs %q (%d rows, width %d)", pa.Source, pa.Rows, pa.Width, pb.Source, pb.Rows, pb.Width))
+	case !slices.Equal(pa.Classes, pb.Classes):
+		w = append(w, fmt.Sprintf("classes differ: %v vs %v", pa.Classes, pb.Classes))
+	case !slices.Equal(pa.Indices, pb.Indices):
+		w = append(w, "the traces use different rows of the sample (another cap or seed)")
+	}
+	return w
 }
 
 // sortedKeys returns the keys of m in increasing order.

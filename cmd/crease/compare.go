@@ -8,8 +8,10 @@ import (
 	"context"
 	"fmt"
 	"io"
+	"maps"
 	"math"
 	"os"
+	"slices"
 	"strings"
 	"text/tabwriter"
 
@@ -109,12 +111,23 @@ func runCompare(ctx context.Context, args []string, stdin io.Reader, stdout, std
 			return fmt.Errorf("%s: %w", p, err)
 		}
 	}
-	c, err := trace.Compare(tr[0], tr[1], &trace.CompareSettings{Tol: *tol, BettiTol: *bettiTol})
+	cs := &trace.CompareSettings{Tol: *tol, BettiTol: *bettiTol}
+	switch {
+	case flagSet(fs, "betti-tol") && !flagSet(fs, "tol"):
+		cs.Tol = math.Inf(1) // judge Betti numbers only
+	case flagSet(fs, "tol") && !flagSet(fs, "betti-tol"):
+		cs.BettiTol = -1 // judge distances and measures only
+	}
+	c, err := trace.Compare(tr[0], tr[1], cs)
 	if err != nil {
 		return err
 	}
+	for _, w := range c.Warnings {
+		fmt.Fprintln(stdout, "# warning: "+w)
+		fmt.Fprintln(stderr, "crease compare: warning: "+w)
+	}
 	tw := tabwriter.NewWriter(stdout, 0, 0, 2, ' ', 0)
-	fmt.Fprintln(tw, "stage\tkind\tmax bottleneck\twhole Δβ\tmax |Δ measure|")
+	fmt.Fprintln(tw, "A\tB\tkind\tmax bottleneck\twhole Δβ\tclass Δβ\tlargest |Δ| measure")
 	for _, s := range c.Stages {
 		kind := s.KindA
 		if s.KindB != s.KindA {
@@ -126,14 +139,32 @@ func runCompare(ctx context.Context, args []string, stdin io.Reader, stdout, std
 				bn = max(bn, v)
 			}
 		}
-		dm := 0.0
-		for _, v := range s.Measures {
-			dm = max(dm, math.Abs(v))
+		var classes []string
+		for _, g := range s.Classes {
+			if slices.ContainsFunc(g.Betti, func(d int) bool { return d != 0 }) {
+				classes = append(classes, fmt.Sprintf("%s %v", g.Label, g.Betti))
+			}
 		}
-		fmt.Fprintf(tw, "%d\t%s\t%.4g\t%v\t%.4g\n", s.Index, kind, bn, s.Whole.Betti, dm)
+		cl := "0"
+		if len(classes) > 0 {
+			cl = strings.Join(classes, "; ")
+		}
+		name, dm := "-", 0.0
+		for _, k := range slices.Sorted(maps.Keys(s.Measures)) {
+			if v := math.Abs(s.Measures[k]); v > dm {
+				name, dm = k, v
+			}
+		}
+		if name != "-" {
+			name = fmt.Sprintf("%s %.4g", name, s.Measures[name])
+		}
+		fmt.Fprintf(tw, "%d\t%d\t%s\t%.4g\t%v\t%s\t%s\n", s.Index, s.IndexB, kind, bn, s.Whole.Betti, cl, name)
 	}
 	if err := tw.Flush(); err != nil {
 		return err
+	}
+	if len(c.Unmatched) > 0 {
+		fmt.Fprintf(stdout, "unmatched stages: %s\n", strings.Join(c.Unmatched, ", "))
 	}
 	if c.Diverge < 0 {
 		fmt.Fprintln(stdout, "no divergence beyond the tolerances")

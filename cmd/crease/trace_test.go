@@ -133,8 +133,9 @@ func TestTraceBadInput(t *testing.T) {
 }
 
 // TestCompareCommand compares a digits trace with itself and with a
-// trace at another seed: the first agrees, the second diverges and
-// exits 1 when a tolerance is given.
+// trace at another seed: the first agrees, the second diverges, names
+// the differing seed, and exits 1 when a tolerance is given; a Betti
+// tolerance alone judges Betti numbers only.
 func TestCompareCommand(t *testing.T) {
 	dir := t.TempDir()
 	for i, seed := range []string{"1", "2"} {
@@ -154,6 +155,8 @@ func TestCompareCommand(t *testing.T) {
 		{"same", []string{a, a, "--tol", "0"}, 0, "no divergence"},
 		{"differ no tol", []string{a, b}, 0, "first divergence at stage "},
 		{"differ tol", []string{a, b, "--tol", "1e-9"}, 1, "first divergence at stage "},
+		{"seeds named", []string{a, b}, 0, "# warning: settings differ: seed 1 vs 2"},
+		{"betti only", []string{a, b, "--betti-tol", "100"}, 0, "no divergence"},
 		{"missing", []string{a, filepath.Join(dir, "none.json")}, 2, ""},
 		{"not a trace", []string{a, digitsSample}, 2, ""},
 	} {
