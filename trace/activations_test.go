@@ -35,9 +35,10 @@ func TestActivationFoldMeasures(t *testing.T) {
 		labels[i] = i % 2
 	}
 	for _, tc := range []struct {
-		file, kind string
-		all        bool // every fold measure, else only the pattern ones
-		none       bool // no fold measure
+		file string
+		kind trace.StageKind
+		all  bool // every fold measure, else only the pattern ones
+		none bool // no fold measure
 	}{
 		{"act_relu6_op17.onnx", "relu6", true, false},
 		{"act_hardtanh_op17.onnx", "hardtanh", true, false},
@@ -46,7 +47,7 @@ func TestActivationFoldMeasures(t *testing.T) {
 		{"act_selu_op17.onnx", "selu", false, true},
 		{"act_mish_op17.onnx", "mish", false, true},
 	} {
-		t.Run(tc.kind, func(t *testing.T) {
+		t.Run(string(tc.kind), func(t *testing.T) {
 			s, err := trace.NewSampleInts(x, labels)
 			if err != nil {
 				t.Fatal(err)

@@ -156,7 +156,7 @@ type StagePair struct {
 	// A and B are the stage indices in each trace.
 	A, B int
 	// Kind is the stages' kind.
-	Kind string
+	Kind StageKind
 	// Quantities are the compared quantities, in a fixed order: CKA,
 	// the stage measures, then each class's k-NN accuracy and Betti
 	// numbers.
@@ -485,10 +485,10 @@ func subsample(s *Sample, keep float64, seed uint64) (*Sample, []int) {
 
 // samePattern returns the share of rows whose sets of positive units
 // agree, for activation stages of equal width; NaN otherwise.
-func samePattern(kind string, xa, xb *mat.Dense) float64 {
+func samePattern(kind StageKind, xa, xb *mat.Dense) float64 {
 	n, wa := xa.Dims()
 	_, wb := xb.Dims()
-	if kind == "input" || kind == onnxload.Affine.String() || wa != wb || n == 0 {
+	if !kind.Activation() || wa != wb || n == 0 {
 		return math.NaN()
 	}
 	same := 0

@@ -8,6 +8,8 @@ import (
 	"fmt"
 	"strings"
 	"testing"
+
+	"crease.dev/crease/onnxload"
 )
 
 // TestMatchStages checks the structural matching of CompareModels on
@@ -22,7 +24,7 @@ func TestMatchStages(t *testing.T) {
 			var kind string
 			var w int
 			fmt.Sscanf(strings.Replace(f, ":", " ", 1), "%s %d", &kind, &w)
-			out = append(out, Stage{Index: i, Kind: kind, Width: w})
+			out = append(out, Stage{Index: i, Kind: StageKind(kind), Width: w})
 		}
 		return out
 	}
@@ -48,5 +50,24 @@ func TestMatchStages(t *testing.T) {
 		if g := strings.Join(un, " "); g != tc.unmatched {
 			t.Errorf("%s: unmatched %q, want %q", tc.name, g, tc.unmatched)
 		}
+	}
+}
+
+// TestKindNames checks that the StageKind constants are the names
+// onnxload gives its kinds, so that a trace's kinds compare equal to
+// them.
+func TestKindNames(t *testing.T) {
+	for _, tc := range []struct {
+		k    StageKind
+		kind onnxload.Kind
+	}{
+		{KindAffine, onnxload.Affine}, {KindReLU, onnxload.ReLU}, {KindSoftmax, onnxload.Softmax}, {KindLogSoftmax, onnxload.LogSoftmax},
+	} {
+		if got := KindOf(tc.kind); got != tc.k {
+			t.Errorf("KindOf(%v) = %q, want %q", tc.kind, got, tc.k)
+		}
+	}
+	if KindInput.Activation() || KindAffine.Activation() || !KindReLU.Activation() || !KindOf(onnxload.Tanh).Activation() {
+		t.Error("Activation: want true exactly for activation kinds")
 	}
 }

@@ -52,7 +52,7 @@ type StageComparison struct {
 	// matched by structure, see CompareModels).
 	Index, IndexB int
 	// KindA and KindB are the stage kinds in each trace.
-	KindA, KindB string
+	KindA, KindB StageKind
 	// Whole compares the whole sample; Classes compares each class
 	// present in both traces, by label, in A's order.
 	Whole   GroupComparison

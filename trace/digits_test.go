@@ -66,7 +66,7 @@ func TestDigitsAcceptance(t *testing.T) {
 	if len(tr.Sample.Indices) != ref.Rows {
 		t.Fatalf("traced %d rows, reference %d", len(tr.Sample.Indices), ref.Rows)
 	}
-	if st := tr.Stage(4); st == nil || st.Kind != "relu" || st.Width != 16 {
+	if st := tr.Stage(4); st == nil || st.Kind != trace.KindReLU || st.Width != 16 {
 		t.Fatalf("stage 4 is %+v, want the second ReLU of width 16", st)
 	}
 	probe := map[string]float64{}

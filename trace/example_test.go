@@ -86,7 +86,7 @@ func ExampleTrace_StageOfNode() {
 	tr := exampleTrace()
 	s := tr.StageOfNode("relu1")
 	fmt.Println(s.Index, s.Kind, s.Group("low").Betti)
-	fmt.Println(len(tr.StagesOfKind("affine")), "affine stages")
+	fmt.Println(len(tr.StagesOfKind(trace.KindAffine)), "affine stages")
 	fmt.Println(tr.Stage(0).Kind, tr.Stage(9) == nil)
 	// Output:
 	// 2 relu [1 1]

@@ -60,8 +60,8 @@ func ReadJSON(r io.Reader) (*Trace, error) {
 		switch {
 		case s.Index != i:
 			return nil, fmt.Errorf("trace: stage %d has index %d", i, s.Index)
-		case (i == 0) != (s.Kind == InputKind):
-			return nil, fmt.Errorf("trace: stage %d has kind %q; only stage 0 is %q", i, s.Kind, InputKind)
+		case (i == 0) != (s.Kind == KindInput):
+			return nil, fmt.Errorf("trace: stage %d has kind %q; only stage 0 is %q", i, s.Kind, KindInput)
 		case len(s.Classes) != len(t.Sample.Classes):
 			return nil, fmt.Errorf("trace: stage %d has %d classes, the sample %d", i, len(s.Classes), len(t.Sample.Classes))
 		}
@@ -98,7 +98,7 @@ func (t *Trace) WriteCSV(w io.Writer) error {
 				if !ok {
 					continue
 				}
-				rec := []string{strconv.Itoa(s.Index), s.Kind, c, m, strconv.FormatFloat(v, 'g', -1, 64)}
+				rec := []string{strconv.Itoa(s.Index), string(s.Kind), c, m, strconv.FormatFloat(v, 'g', -1, 64)}
 				if err := cw.Write(rec); err != nil {
 					return err
 				}

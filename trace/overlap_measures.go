@@ -24,7 +24,7 @@ func overlapMeasures(ctx context.Context, st *Stage, out *mat.Dense, labels []in
 		K:         rs.OverlapK,
 		SkipProbe: rs.SkipProbe,
 		Probe:     overlap.ProbeSettings{Seed: rs.Seed},
-		Softmax:   st.Kind == "softmax" && units != nil,
+		Softmax:   st.Kind == KindSoftmax && units != nil,
 	}
 	if set.Softmax {
 		out = unitColumns(out, units)

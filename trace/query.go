@@ -33,9 +33,9 @@ func (t *Trace) All() iter.Seq2[int, *Stage] {
 	}
 }
 
-// StagesOfKind returns the stages of the given kind ("input", "affine",
-// "relu", "softmax", ...), in order.
-func (t *Trace) StagesOfKind(kind string) []*Stage {
+// StagesOfKind returns the stages of the given kind (KindInput,
+// KindAffine, KindSoftmax, KindOf(onnxload.Tanh), ...), in order.
+func (t *Trace) StagesOfKind(kind StageKind) []*Stage {
 	var out []*Stage
 	for i := range t.Stages {
 		if t.Stages[i].Kind == kind {
@@ -226,7 +226,7 @@ func (t *Trace) MeasureNames() []string {
 // Summary is a one-line digest of a stage.
 type Summary struct {
 	Index int
-	Kind  string
+	Kind  StageKind
 	Width int
 	// Betti is the whole sample's Betti numbers.
 	Betti []int

@@ -59,7 +59,7 @@ func (s stageTicks) Ticks(min, max float64) []plot.Tick {
 		if v < min-0.5 || v > max+0.5 {
 			continue
 		}
-		out = append(out, plot.Tick{Value: v, Label: strconv.Itoa(st.Index) + "\n" + st.Kind})
+		out = append(out, plot.Tick{Value: v, Label: strconv.Itoa(st.Index) + "\n" + string(st.Kind)})
 	}
 	return out
 }

@@ -75,7 +75,7 @@ svg{max-width:100%;height:auto}
 	b.WriteString("<th>glued within</th><th>glued cross</th></tr>\n")
 	for i := range t.Stages {
 		s := &t.Stages[i]
-		fmt.Fprintf(&b, "<tr><td>%d</td><td class=\"l\">%s</td><td>%d</td><td>%s</td>", s.Index, e(s.Kind), s.Width, s.Whole.BettiString())
+		fmt.Fprintf(&b, "<tr><td>%d</td><td class=\"l\">%s</td><td>%d</td><td>%s</td>", s.Index, e(string(s.Kind)), s.Width, s.Whole.BettiString())
 		for c := range s.Classes {
 			fmt.Fprintf(&b, "<td>%s</td>", s.Classes[c].BettiString())
 		}
@@ -88,13 +88,13 @@ svg{max-width:100%;height:auto}
 	b.WriteString("</table>\n<p class=\"note\">Betti numbers are written (β₀,β₁,…); a “?” follows a dimension the sample cannot decide (the number before it is the best guess).</p>\n")
 	if k := t.First(0, AllSimple); k >= 0 {
 		fmt.Fprintf(&b, "<p>Every class is first one component with no holes at stage %d (%s), %s.</p>\n",
-			k, e(t.Stages[k].Kind), yesNo(simpleFrom(t, k)))
+			k, e(string(t.Stages[k].Kind)), yesNo(simpleFrom(t, k)))
 	} else {
 		b.WriteString("<p>At no stage is every class one component with no holes.</p>\n")
 	}
 	if k := t.First(1, CrossGlued); k >= 0 {
 		fmt.Fprintf(&b, "<p>Points of different classes are first glued together at stage %d (%s): %d pair(s).</p>\n",
-			k, e(t.Stages[k].Kind), t.Stages[k].Glued.Cross)
+			k, e(string(t.Stages[k].Kind)), t.Stages[k].Glued.Cross)
 	} else if len(t.Stages) > 1 {
 		b.WriteString("<p>No stage glues points of different classes together.</p>\n")
 	}

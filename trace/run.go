@@ -194,10 +194,10 @@ func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings)
 		st.Index = i
 		_, st.Width = c.Dims()
 		if i == 0 {
-			st.Kind = InputKind
+			st.Kind = KindInput
 		} else {
 			ms := &stages[i-1]
-			st.Kind = ms.Kind.String()
+			st.Kind = KindOf(ms.Kind)
 			st.In = ms.In
 			st.Nodes = append([]string(nil), ms.Nodes...)
 		}

@@ -31,7 +31,7 @@ import (
 func TestRunCircles(t *testing.T) {
 	tr := circleTrace(t)
 	type want struct {
-		kind       string
+		kind       trace.StageKind
 		whole, cls []int
 		glued      *trace.Glued
 	}

@@ -38,7 +38,7 @@ type Separation struct {
 type Drop struct {
 	// Stage is the stage, Kind and Width its kind and width.
 	Stage int
-	Kind  string
+	Kind  StageKind
 	Width int
 	// From and To are the accuracies before and at the stage.
 	From, To float64

@@ -12,7 +12,7 @@ import (
 )
 
 func TestSeparation(t *testing.T) {
-	stage := func(kind string, knn, probe float64) trace.Stage {
+	stage := func(kind trace.StageKind, knn, probe float64) trace.Stage {
 		m := map[string]float64{"knn.accuracy": knn}
 		if probe >= 0 {
 			m["probe.accuracy"] = probe

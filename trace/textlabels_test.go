@@ -62,7 +62,7 @@ func TestTextLabelUnits(t *testing.T) {
 				t.Fatal(err)
 			}
 			last := tr.Stages[len(tr.Stages)-1]
-			if last.Kind != "softmax" {
+			if last.Kind != trace.KindSoftmax {
 				t.Fatalf("last stage is %s, want softmax", last.Kind)
 			}
 			if got, ok := last.Measures["voronoi.inside"]; !ok || got != tc.want {

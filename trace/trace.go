@@ -11,6 +11,7 @@ import (
 	"time"
 
 	"crease.dev/crease/homology"
+	"crease.dev/crease/onnxload"
 )
 
 // SchemaVersion is the version of the JSON layout written by WriteJSON.
@@ -21,8 +22,32 @@ import (
 // ReadJSON reads version 1 too.
 const SchemaVersion = 2
 
+// StageKind is the kind of a stage: KindInput for stage 0, else the
+// name of the onnxload kind of the model stage (KindOf). In JSON it is
+// that name.
+type StageKind string
+
+// Stage kinds that trace and its callers test for. Every other
+// activation is KindOf its onnxload.Kind.
+const (
+	KindInput      StageKind = "input"       // stage 0, the sample itself
+	KindAffine     StageKind = "affine"      // onnxload.Affine
+	KindReLU       StageKind = "relu"        // onnxload.ReLU
+	KindSoftmax    StageKind = "softmax"     // onnxload.Softmax
+	KindLogSoftmax StageKind = "log-softmax" // onnxload.LogSoftmax
+)
+
 // InputKind is the Kind of stage 0, the sample itself.
-const InputKind = "input"
+//
+// Deprecated: use KindInput.
+const InputKind = KindInput
+
+// KindOf returns the StageKind of a model stage of kind k.
+func KindOf(k onnxload.Kind) StageKind { return StageKind(k.String()) }
+
+// Activation reports whether the stage is an activation (neither the
+// input nor an affine map).
+func (k StageKind) Activation() bool { return k != KindInput && k != KindAffine }
 
 // Trace is the record of one run of a model over a labeled sample.
 //
@@ -88,7 +113,7 @@ type Stage struct {
 	Index int `json:"index"`
 	// Kind is "input" for stage 0, else the onnxload kind name
 	// ("affine", "relu", "softmax", ...).
-	Kind string `json:"kind"`
+	Kind StageKind `json:"kind"`
 	// In is the input width of the stage (0 for the input stage).
 	In int `json:"in"`
 	// Width is the stage's output width (the features for the input).

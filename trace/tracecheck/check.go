@@ -79,7 +79,7 @@ func NoCrossGlueBefore(tb testing.TB, tr *trace.Trace, before int) bool {
 // "voronoi.inside" = 1 for every class).
 func SoftmaxSeparates(tb testing.TB, tr *trace.Trace) bool {
 	tb.Helper()
-	sm := tr.StagesOfKind("softmax")
+	sm := tr.StagesOfKind(trace.KindSoftmax)
 	if len(sm) == 0 {
 		tb.Errorf("tracecheck: the trace has no softmax stage")
 		return false

@@ -64,7 +64,7 @@ func Judge(tr *trace.Trace) Verdict {
 		if g := tr.Stages[i].Glued; g != nil {
 			v.FirstLayerCross += g.Cross
 		}
-		if tr.Stages[i].Kind != "affine" {
+		if tr.Stages[i].Kind != trace.KindAffine {
 			break
 		}
 	}
