@@ -14,6 +14,7 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
+	"crease.dev/crease/homology"
 	"crease.dev/crease/onnxload"
 	"crease.dev/crease/relu"
 )
@@ -146,6 +147,10 @@ type Alikeness struct {
 	// First is the first difference that counts, nil when the models
 	// reshape the sample alike.
 	First *Quantity
+	// CKA[i][j] is the linear CKA between stage i of A and stage j of B
+	// on the whole sample: where one model's stage corresponds to the
+	// other's (NaN where a stage has no spread).
+	CKA [][]float64
 }
 
 // Alike reports whether no compared quantity differs beyond its spread.
@@ -185,7 +190,11 @@ type Quantity struct {
 	A, B, Delta float64
 	// Spread is the resampling spread Delta is judged against: the
 	// delete-d jackknife standard error of A's value (of CKA for "cka")
-	// over the subsamples; zero for Betti numbers.
+	// over the subsamples; for "bottleneck.d" (the bottleneck distance
+	// between the class's dimension-d barcodes, each in units of its own
+	// sampling scale, so that a map that only rescales a class changes
+	// nothing) the largest such distance between A's barcode and A's on
+	// a subsample; zero for Betti numbers.
 	Spread float64
 	// Bound is the least |Delta| that counts.
 	Bound float64
@@ -225,7 +234,10 @@ var comparedMeasures = []stageMeasure{
 // the full-sample value. A difference counts when it exceeds Z times
 // that spread (and, for shares of points, one point); 1 − CKA counts
 // when it exceeds both Z spreads of CKA and CKAFloor; a Betti number
-// counts when both readings are confident and differ.
+// counts when both readings are confident and differ; a bottleneck
+// distance between a class's barcodes (each in units of its own
+// sampling scale) counts when it exceeds every such distance between
+// A's barcode and A's on a subsample.
 func CompareModels(ctx context.Context, a, b []onnxload.Stage, s *Sample, set *Settings, as *AlikeSettings) (*Alikeness, error) {
 	cs, err := as.resolve()
 	if err != nil {
@@ -278,6 +290,17 @@ func CompareModels(ctx context.Context, a, b []onnxload.Stage, s *Sample, set *S
 	actsA = append([]*mat.Dense{s.X}, actsA...)
 	actsB = append([]*mat.Dense{s.X}, actsB...)
 	pairs, unmatched := matchStages(ta.Stages, tb.Stages)
+	ckaAll := make([][]float64, len(actsA))
+	for i := range actsA {
+		ckaAll[i] = make([]float64, len(actsB))
+		for j := range actsB {
+			v, err := LinearCKA(actsA[i], actsB[j])
+			if err != nil {
+				v = math.NaN()
+			}
+			ckaAll[i][j] = v
+		}
+	}
 
 	// Replicates: A on subsamples, and CKA of A and B on the same rows.
 	reps := make([]*Trace, cs.Replicates)
@@ -306,7 +329,7 @@ func CompareModels(ctx context.Context, a, b []onnxload.Stage, s *Sample, set *S
 		return jack * math.Sqrt(ss/float64(len(vals)-1))
 	}
 	n := len(s.Labels)
-	out := &Alikeness{Settings: cs, A: ta, B: tb, Unmatched: unmatched}
+	out := &Alikeness{Settings: cs, A: ta, B: tb, Unmatched: unmatched, CKA: ckaAll}
 	for _, p := range pairs {
 		sa, sb := &ta.Stages[p[0]], &tb.Stages[p[1]]
 		sp := StagePair{A: p[0], B: p[1], Kind: sa.Kind, SamePattern: math.NaN(), GluedOverlap: math.NaN()}
@@ -367,6 +390,22 @@ func CompareModels(ctx context.Context, a, b []onnxload.Stage, s *Sample, set *S
 					q.Differs = math.Abs(q.Delta) > q.Bound
 					sp.Quantities = append(sp.Quantities, q)
 				}
+			}
+			for d := range min(len(ga.Bars), len(gb.Bars)) {
+				if !(ga.Scale > 0) || !(gb.Scale > 0) {
+					break
+				}
+				own := scaledBars(ga, d)
+				bn := homology.Bottleneck(own, scaledBars(gb, d))
+				var floor float64
+				for _, rt := range reps {
+					if g := rt.Stages[p[0]].Group(ga.Label); g != nil && d < len(g.Bars) && g.Scale > 0 {
+						floor = max(floor, homology.Bottleneck(own, scaledBars(g, d)))
+					}
+				}
+				q := Quantity{Stage: name, Name: fmt.Sprintf("bottleneck.%d", d), Class: ga.Label, B: bn, Delta: bn, Spread: floor, Bound: floor}
+				q.Differs = bn > floor
+				sp.Quantities = append(sp.Quantities, q)
 			}
 			for d := range min(len(ga.Betti), len(gb.Betti)) {
 				q := Quantity{Stage: name, Name: fmt.Sprintf("betti.%d", d), Class: ga.Label, A: float64(ga.Betti[d]), B: float64(gb.Betti[d])}
@@ -606,4 +645,15 @@ func gluedPairs(ctx context.Context, in, out *mat.Dense, rs Settings) ([][2]int,
 		pairs[i] = [2]int{e.I, e.J}
 	}
 	return pairs, nil
+}
+
+// scaledBars returns g's dimension-d bars, clipped at its threshold, in
+// units of its sampling scale.
+func scaledBars(g *Group, d int) []homology.Bar {
+	b := clipBars(g.Bars[d], g.Threshold)
+	for i := range b {
+		b[i].Birth /= g.Scale
+		b[i].Death /= g.Scale
+	}
+	return b
 }

@@ -49,6 +49,7 @@ func runCompare(ctx context.Context, args []string, stdin io.Reader, stdout, std
 	keep := fs.Float64("keep", trace.DefaultKeep, "models: share of each class a subsample keeps")
 	z := fs.Float64("z", trace.DefaultZ, "models: spreads a difference must exceed to count")
 	ckaFloor := fs.Float64("cka-floor", trace.DefaultCKAFloor, "models: least 1 − CKA that counts")
+	ckaMatrix := fs.Bool("cka-matrix", false, "models: also print linear CKA between every stage of A and every stage of B")
 	pos, err := parseFlags(fs, args)
 	if err != nil {
 		return err
@@ -89,12 +90,17 @@ func runCompare(ctx context.Context, args []string, stdin io.Reader, stdout, std
 		if err := writeAlikeness(stdout, c); err != nil {
 			return err
 		}
+		if *ckaMatrix {
+			if err := writeCKAMatrix(stdout, c); err != nil {
+				return err
+			}
+		}
 		if !c.Alike() {
 			return checkFailed("the models differ: %s", c.Reason())
 		}
 		return nil
 	}
-	for _, f := range []string{"labels", "header", "top-dim", "per-class-cap", "seed", "class-order", "skip-probe", "fuse", "workers", "replicates", "keep", "z", "cka-floor"} {
+	for _, f := range []string{"labels", "header", "top-dim", "per-class-cap", "seed", "class-order", "skip-probe", "fuse", "workers", "replicates", "keep", "z", "cka-floor", "cka-matrix"} {
 		if flagSet(fs, f) {
 			return fmt.Errorf("--%s applies to models (A.onnx B.onnx DATA), not to two traces", f)
 		}
@@ -245,4 +251,28 @@ func writeAlikeness(w io.Writer, c *trace.Alikeness) error {
 	}
 	_, err := fmt.Fprintf(w, "verdict: %s; %s\n", verdict, c.Reason())
 	return err
+}
+
+// writeCKAMatrix prints linear CKA between every stage of A (rows) and
+// every stage of B (columns).
+func writeCKAMatrix(w io.Writer, c *trace.Alikeness) error {
+	fmt.Fprintln(w, "linear CKA, stage of A (rows) × stage of B (columns):")
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprint(tw, "A \\ B\t")
+	for j := range c.B.Stages {
+		fmt.Fprintf(tw, "%d %s\t", j, c.B.Stages[j].Kind)
+	}
+	fmt.Fprintln(tw)
+	for i, row := range c.CKA {
+		fmt.Fprintf(tw, "%d %s\t", i, c.A.Stages[i].Kind)
+		for _, v := range row {
+			if math.IsNaN(v) {
+				fmt.Fprint(tw, "-\t")
+			} else {
+				fmt.Fprintf(tw, "%.3f\t", v)
+			}
+		}
+		fmt.Fprintln(tw)
+	}
+	return tw.Flush()
 }

@@ -186,6 +186,7 @@ func TestCompareModelsCommand(t *testing.T) {
 	}{
 		{"float16", []string{dir + "base.onnx", dir + "fp16.onnx", dir + "rings3.csv", "--replicates", "4"}, 0, "verdict: alike"},
 		{"pruned", []string{dir + "base.onnx", dir + "pruned.onnx", dir + "rings3.csv", "--replicates", "4"}, 1, "verdict: different; stage 1 / 1"},
+		{"CKA matrix", []string{dir + "base.onnx", dir + "narrow.onnx", dir + "rings3.csv", "--replicates", "3", "--cka-matrix"}, 1, "linear CKA, stage of A (rows) × stage of B (columns):"},
 		{"tolerance on models", []string{dir + "base.onnx", dir + "fp16.onnx", dir + "rings3.csv", "--tol", "1"}, 2, ""},
 		{"wrong width", []string{dir + "base.onnx", digitsModel, dir + "rings3.csv"}, 2, ""},
 		{"missing data", []string{dir + "base.onnx", dir + "fp16.onnx", dir + "none.csv"}, 2, ""},
