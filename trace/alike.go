@@ -466,17 +466,17 @@ func (a *Alikeness) Reason() string {
 	if q == nil {
 		return "the models reshape the sample alike: no compared quantity differs by more than its resampling spread"
 	}
-	who := "the stage"
+	who := ""
 	if q.Class != "" {
-		who = "class " + q.Class
+		who = ", class " + q.Class
 	}
 	switch {
 	case q.Name == "cka":
 		return fmt.Sprintf("%s: linear CKA %.4g, 1 − CKA = %.3g above the bound %.3g (spread %.3g)", q.Stage, q.B, q.Delta, q.Bound, q.Spread)
 	case len(q.Name) > 6 && q.Name[:6] == "betti.":
-		return fmt.Sprintf("%s, %s: β%s %v → %v, both confident", q.Stage, who, q.Name[6:], q.A, q.B)
+		return fmt.Sprintf("%s%s: β%s %v → %v, both confident", q.Stage, who, q.Name[6:], q.A, q.B)
 	}
-	return fmt.Sprintf("%s, %s: %s %.4g → %.4g, a change of %.3g against the bound %.3g (spread %.3g)", q.Stage, who, q.Name, q.A, q.B, q.Delta, q.Bound, q.Spread)
+	return fmt.Sprintf("%s%s: %s %.4g → %.4g, a change of %.3g against the bound %.3g (spread %.3g)", q.Stage, who, q.Name, q.A, q.B, q.Delta, q.Bound, q.Spread)
 }
 
 func nanZero(x float64) float64 {
