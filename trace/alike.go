@@ -205,22 +205,10 @@ type Quantity struct {
 	Note string
 }
 
-// stageMeasure says how a stage measure is compared.
-type stageMeasure struct {
-	name string
-	log  bool // compared on a log scale (a ratio)
-	unit bool // a share of points: differences below one point never count
-}
-
-// comparedMeasures are the stage measures CompareModels judges.
-var comparedMeasures = []stageMeasure{
-	{name: "knn.accuracy", unit: true},
-	{name: "probe.accuracy", unit: true},
-	{name: "margin.ratio", log: true},
-	{name: "fisher.ratio", log: true},
-	{name: "silhouette.score"},
-	{name: "voronoi.inside", unit: true},
-}
+// comparedMeasures are the stage measures CompareModels judges; the
+// measure table says which are ratios (compared on a log scale) and
+// which are shares of points.
+var comparedMeasures = []string{"knn.accuracy", "probe.accuracy", "margin.ratio", "fisher.ratio", "silhouette.score", "voronoi.inside"}
 
 // CompareModels traces two models on one sample with the same settings
 // and judges, stage by matched stage, whether they reshape it alike.
@@ -349,21 +337,22 @@ func CompareModels(ctx context.Context, a, b []onnxload.Stage, s *Sample, set *S
 			sp.Quantities = append(sp.Quantities, q)
 		}
 		// Stage measures.
-		for _, m := range comparedMeasures {
-			va, oka := sa.Measures[m.name]
-			vb, okb := sb.Measures[m.name]
+		for _, mn := range comparedMeasures {
+			m, _ := LookupMeasure(mn)
+			va, oka := sa.Measures[mn]
+			vb, okb := sb.Measures[mn]
 			if !oka || !okb {
 				continue
 			}
 			var vals []float64
 			for _, rt := range reps {
-				if v, ok := rt.Stages[p[0]].Measures[m.name]; ok {
-					vals = append(vals, logIf(m.log, v))
+				if v, ok := rt.Stages[p[0]].Measures[mn]; ok {
+					vals = append(vals, logIf(m.Ratio, v))
 				}
 			}
-			q := Quantity{Stage: name, Name: m.name, A: va, B: vb, Delta: logIf(m.log, vb) - logIf(m.log, va), Spread: spread(vals)}
+			q := Quantity{Stage: name, Name: mn, A: va, B: vb, Delta: logIf(m.Ratio, vb) - logIf(m.Ratio, va), Spread: spread(vals)}
 			q.Bound = cs.Z * nanZero(q.Spread)
-			if m.unit {
+			if m.Share {
 				q.Bound = max(q.Bound, 1/float64(n))
 			}
 			q.Differs = math.Abs(q.Delta) > q.Bound

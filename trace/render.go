@@ -254,10 +254,10 @@ func (t *Trace) WriteGluingSVG(w io.Writer) error {
 // point. It returns an error if no stage has a separation measure.
 func (t *Trace) WriteSeparationSVG(w io.Writer) error {
 	top := t.newStagePlot("How well the classes are apart", "accuracy (fraction)")
-	names := []struct{ key, label string }{
-		{"knn.accuracy", "k-NN accuracy"},
-		{"probe.accuracy", "linear-probe accuracy"},
-		{"voronoi.inside", "inside own Voronoi cell"},
+	var names []struct{ key, label string }
+	for _, k := range []string{"knn.accuracy", "probe.accuracy", "voronoi.inside"} {
+		m, _ := LookupMeasure(k)
+		names = append(names, struct{ key, label string }{k, m.Label})
 	}
 	n := 0
 	for k, nm := range names {

@@ -113,6 +113,10 @@ func MeasureAtLeast(tb testing.TB, tr *trace.Trace, stage int, class, name strin
 		tb.Errorf("tracecheck: unknown class %q (classes: %s)", class, strings.Join(tr.Sample.Classes, ", "))
 		return false
 	}
+	if err := trace.CheckMeasure(name); err != nil {
+		tb.Errorf("tracecheck: %v", err)
+		return false
+	}
 	s := &tr.Stages[stage]
 	v, ok := s.Value(class, name)
 	switch {

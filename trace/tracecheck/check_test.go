@@ -99,7 +99,8 @@ func TestChecks(t *testing.T) {
 		{"knn at least", func(tb testing.TB) bool { return tracecheck.MeasureAtLeast(tb, tr, 2, "", "knn.accuracy", 1) }, true, nil},
 		{"knn falls", func(tb testing.TB) bool { return tracecheck.MeasureAtLeast(tb, tr, 3, "", "knn.accuracy", 0.9) }, false,
 			[]string{"knn.accuracy = ", "at stage 3 (affine); want at least 0.9", "knn.accuracy: 0:input=1"}},
-		{"unknown measure", func(tb testing.TB) bool { return tracecheck.MeasureAtLeast(tb, tr, 1, "", "knn.acc", 1) }, false, []string{`no measure "knn.acc"`}},
+		{"unknown measure", func(tb testing.TB) bool { return tracecheck.MeasureAtLeast(tb, tr, 1, "", "knn.acc", 1) }, false, []string{`unknown measure "knn.acc"`, "knn.accuracy"}},
+		{"measure absent here", func(tb testing.TB) bool { return tracecheck.MeasureAtLeast(tb, tr, 1, "", "voronoi.inside", 1) }, false, []string{`has no measure "voronoi.inside"`}},
 		{"softmax mixes", func(tb testing.TB) bool { return tracecheck.SoftmaxSeparates(tb, bad) }, false,
 			[]string{`class "low"`, "inside its own Voronoi cell at stage 2 (softmax)", "voronoi.inside: 0:input=- 1:affine=- 2:softmax=0.2917"}}, // 7 of 24: the angles 225°..315°, where sin θ < −1/2
 	} {
