@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"crease.dev/crease/trace"
+	"crease.dev/crease/trace/render"
 )
 
 // FuzzReadCSV checks that ReadCSV never panics and that every sample it
@@ -85,7 +86,7 @@ func FuzzReadJSON(f *testing.F) {
 			return
 		}
 		var html countWriter
-		_ = tr.WriteHTML(&html)
+		_ = render.HTML(&html, tr)
 		if limit := 2000*len(data) + 4<<20; html.n > limit {
 			t.Fatalf("a %d-byte trace made a %d-byte report", len(data), html.n)
 		}

@@ -10,6 +10,7 @@ import (
 	"io"
 
 	"crease.dev/crease/trace"
+	"crease.dev/crease/trace/render"
 )
 
 func init() {
@@ -50,8 +51,9 @@ func runReport(ctx context.Context, args []string, stdin io.Reader, stdout, stde
 	if len(tr.Stages) == 0 {
 		return fmt.Errorf("%s: the trace has no stages", name)
 	}
+	write := func(w io.Writer) error { return render.HTML(w, tr) }
 	if *out == "" {
-		return tr.WriteHTML(stdout)
+		return write(stdout)
 	}
-	return writeFileAtomic(ctx, *out, tr.WriteHTML)
+	return writeFileAtomic(ctx, *out, write)
 }

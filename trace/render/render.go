@@ -2,9 +2,11 @@
 // Use of this source code is governed by a BSD-style
 // license that can be found in the LICENSE file.
 
-package trace
+package render
 
 import (
+	"crease.dev/crease/trace"
+
 	"bytes"
 	"fmt"
 	"image/color"
@@ -50,7 +52,7 @@ var grey = color.RGBA{R: 0x70, G: 0x70, B: 0x70, A: 0xff}
 func classColor(c int) color.Color { return palette[c%len(palette)] }
 
 // stageTicks labels the x axis with stage index and kind.
-type stageTicks []*Stage
+type stageTicks []*trace.Stage
 
 func (s stageTicks) Ticks(min, max float64) []plot.Tick {
 	var out []plot.Tick
@@ -64,20 +66,20 @@ func (s stageTicks) Ticks(min, max float64) []plot.Tick {
 	return out
 }
 
-func (t *Trace) stagePtrs() []*Stage {
-	out := make([]*Stage, len(t.Stages))
+func stagePtrs(t *trace.Trace) []*trace.Stage {
+	out := make([]*trace.Stage, len(t.Stages))
 	for i := range t.Stages {
 		out[i] = &t.Stages[i]
 	}
 	return out
 }
 
-func (t *Trace) newStagePlot(title, ylabel string) *plot.Plot {
+func newStagePlot(t *trace.Trace, title, ylabel string) *plot.Plot {
 	p := plot.New()
 	p.Title.Text = title
 	p.X.Label.Text = "stage"
 	p.Y.Label.Text = ylabel
-	p.X.Tick.Marker = stageTicks(t.stagePtrs())
+	p.X.Tick.Marker = stageTicks(stagePtrs(t))
 	p.X.Min, p.X.Max = -0.3, float64(len(t.Stages)-1)+0.3
 	p.Legend.Top = true
 	p.Legend.Left = false
@@ -129,18 +131,18 @@ func writePanels(c draw.Canvas, ps ...*plot.Plot) {
 	}
 }
 
-// WriteBettiSVG writes an SVG line plot of the Betti number βdim of
+// BettiSVG writes an SVG line plot of the Betti number βdim of
 // every class (solid, in class colours) and of the whole sample (dashed
 // grey, when recorded) across the stages. It returns an error if dim is
 // outside 0..Settings.MaxDim or the trace has no stages.
-func (t *Trace) WriteBettiSVG(w io.Writer, dim int) error {
+func BettiSVG(w io.Writer, t *trace.Trace, dim int) error {
 	if len(t.Stages) == 0 {
-		return fmt.Errorf("trace: render: the trace has no stages")
+		return fmt.Errorf("render: the trace has no stages")
 	}
 	if dim < 0 || dim > t.Settings.MaxDim {
-		return fmt.Errorf("trace: render: dimension %d outside 0..%d", dim, t.Settings.MaxDim)
+		return fmt.Errorf("render: dimension %d outside 0..%d", dim, t.Settings.MaxDim)
 	}
-	p := t.newStagePlot(fmt.Sprintf("β%s per class across stages", subscript(dim)), fmt.Sprintf("β%s", subscript(dim)))
+	p := newStagePlot(t, fmt.Sprintf("β%s per class across stages", subscript(dim)), fmt.Sprintf("β%s", subscript(dim)))
 	hi := 1.0
 	for c, name := range t.Sample.Classes {
 		var xy plotter.XYs
@@ -183,18 +185,18 @@ func (intTicks) Ticks(min, max float64) []plot.Tick {
 	return out
 }
 
-// WriteGluingSVG writes an SVG plot of the gluing and folding measures across the
+// GluingSVG writes an SVG plot of the gluing and folding measures across the
 // stages after the input: the pairs of points glued within a class and
 // cross (different classes) (log scale, plotted as count + 1) and, on a second axis
 // set below, the fractions of points that ReLU-type stages leave
 // untouched, send to a face, or send to the origin (fold.untouched,
 // fold.face, fold.origin). It returns an error if the trace has fewer
 // than two stages.
-func (t *Trace) WriteGluingSVG(w io.Writer) error {
+func GluingSVG(w io.Writer, t *trace.Trace) error {
 	if len(t.Stages) < 2 {
-		return fmt.Errorf("trace: render: the trace has no stage after the input")
+		return fmt.Errorf("render: the trace has no stage after the input")
 	}
-	top := t.newStagePlot("Pairs glued by each stage", "pairs + 1 (log)")
+	top := newStagePlot(t, "Pairs glued by each stage", "pairs + 1 (log)")
 	top.Y.Scale = plot.LogScale{}
 	top.Y.Tick.Marker = plot.LogTicks{Prec: -1}
 	var within, cross plotter.XYs
@@ -217,7 +219,7 @@ func (t *Trace) WriteGluingSVG(w io.Writer) error {
 	}
 	top.Y.Max = hi
 
-	bottom := t.newStagePlot("What each ReLU-type stage does to the points", "fraction of points")
+	bottom := newStagePlot(t, "What each ReLU-type stage does to the points", "fraction of points")
 	names := []struct{ key, label string }{
 		{"fold.untouched", "untouched"},
 		{"fold.face", "sent to a face"},
@@ -247,16 +249,16 @@ func (t *Trace) WriteGluingSVG(w io.Writer) error {
 	return err
 }
 
-// WriteSeparationSVG writes an SVG plot of how well the classes are
+// SeparationSVG writes an SVG plot of how well the classes are
 // apart at each stage: on top the stage measures knn.accuracy,
 // probe.accuracy and, on softmax stages, voronoi.inside; below, each
 // class's knn.accuracy. Stages where a measure is undefined have no
 // point. It returns an error if no stage has a separation measure.
-func (t *Trace) WriteSeparationSVG(w io.Writer) error {
-	top := t.newStagePlot("How well the classes are apart", "accuracy (fraction)")
+func SeparationSVG(w io.Writer, t *trace.Trace) error {
+	top := newStagePlot(t, "How well the classes are apart", "accuracy (fraction)")
 	var names []struct{ key, label string }
 	for _, k := range []string{"knn.accuracy", "probe.accuracy", "voronoi.inside"} {
-		m, _ := LookupMeasure(k)
+		m, _ := trace.LookupMeasure(k)
 		names = append(names, struct{ key, label string }{k, m.Label})
 	}
 	n := 0
@@ -273,12 +275,12 @@ func (t *Trace) WriteSeparationSVG(w io.Writer) error {
 		}
 	}
 	if n == 0 {
-		return fmt.Errorf("trace: render: no stage has a separation measure")
+		return fmt.Errorf("render: no stage has a separation measure")
 	}
 	// Headroom above 1 keeps the legend (top right) off the data.
 	top.Y.Min, top.Y.Max = 0, 1.45
 
-	bottom := t.newStagePlot("k-NN accuracy of each class", "accuracy (fraction)")
+	bottom := newStagePlot(t, "k-NN accuracy of each class", "accuracy (fraction)")
 	for c, name := range t.Sample.Classes {
 		var xy plotter.XYs
 		for i := range t.Stages {
@@ -314,29 +316,29 @@ func (unitTicks) Ticks(min, max float64) []plot.Tick {
 	return ts
 }
 
-// WriteBarcodeSVG writes an SVG barcode of one group at stage i: class
+// BarcodeSVG writes an SVG barcode of one group at stage i: class
 // names a class, "" the whole sample. Each bar is a horizontal segment
 // from birth to death, grouped by dimension (H0 at the top); bars alive
 // at the threshold are drawn to the threshold and ended with an arrow
 // head; a vertical line marks the scale at which the Betti numbers were
 // read. It returns an error for an unknown stage or class or a group
 // with no bars.
-func (t *Trace) WriteBarcodeSVG(w io.Writer, i int, class string) error {
+func BarcodeSVG(w io.Writer, t *trace.Trace, i int, class string) error {
 	st := t.Stage(i)
 	if st == nil {
-		return fmt.Errorf("trace: render: no stage %d (the trace has %d)", i, len(t.Stages))
+		return fmt.Errorf("render: no stage %d (the trace has %d)", i, len(t.Stages))
 	}
 	g := &st.Whole
 	name := "whole sample"
 	if class != "" {
 		g = st.Group(class)
 		if g == nil {
-			return fmt.Errorf("trace: render: stage %d has no class %q", i, class)
+			return fmt.Errorf("render: stage %d has no class %q", i, class)
 		}
 		name = "class " + class
 	}
 	if len(g.Bars) == 0 {
-		return fmt.Errorf("trace: render: stage %d, %s: no bars recorded", i, name)
+		return fmt.Errorf("render: stage %d, %s: no bars recorded", i, name)
 	}
 	p := plot.New()
 	p.Title.Text = fmt.Sprintf("Barcode, stage %d (%s), %s", st.Index, st.Kind, name)
@@ -398,7 +400,7 @@ func (t *Trace) WriteBarcodeSVG(w io.Writer, i int, class string) error {
 	p.Y.Tick.Marker = plot.ConstantTicks(ticks)
 	p.Y.Min, p.Y.Max = -1, math.Max(row-0.5, 1)
 	p.X.Min, p.X.Max = 0, end*1.05
-	if g.Scale > 0 && t.Settings.Rule != ScalePersistence {
+	if g.Scale > 0 && t.Settings.Rule != trace.ScalePersistence {
 		l, err := plotter.NewLine(plotter.XYs{{X: g.Scale, Y: -1}, {X: g.Scale, Y: row}})
 		if err != nil {
 			return err
@@ -406,7 +408,7 @@ func (t *Trace) WriteBarcodeSVG(w io.Writer, i int, class string) error {
 		l.Color = grey
 		l.Dashes = []vg.Length{vg.Points(3), vg.Points(3)}
 		p.Add(l)
-		p.Legend.Add(fmt.Sprintf("ε = %.3g (Betti %s)", g.Scale, bettiString(g.Betti)), l)
+		p.Legend.Add(fmt.Sprintf("ε = %.3g (Betti %s)", g.Scale, g.BettiString()), l)
 		p.Legend.Top = true
 	}
 	h := plotHeight
@@ -418,7 +420,7 @@ func (t *Trace) WriteBarcodeSVG(w io.Writer, i int, class string) error {
 
 // longest returns at most n bars of b with the largest persistence, in
 // their original order.
-func longest(b []Bar, n int) []Bar {
+func longest(b []trace.Bar, n int) []trace.Bar {
 	if len(b) <= n {
 		return b
 	}
@@ -429,7 +431,7 @@ func longest(b []Bar, n int) []Bar {
 	cut := append([]float64(nil), pers...)
 	sort.Sort(sort.Reverse(sort.Float64Slice(cut)))
 	th := cut[n-1]
-	out := make([]Bar, 0, n)
+	out := make([]trace.Bar, 0, n)
 	for i, x := range b {
 		if pers[i] > th && len(out) < n {
 			out = append(out, x)
@@ -453,12 +455,12 @@ func subscript(d int) string {
 	return b.String()
 }
 
-// SVG returns the plot of β₀ per class across stages (WriteBettiSVG with
+// SVG returns the plot of β₀ per class across stages (BettiSVG with
 // dimension 0), or an empty string for a trace with no stages. It is
 // meant for notebooks that display SVG.
-func (t *Trace) SVG() string {
+func SVG(t *trace.Trace) string {
 	var b bytes.Buffer
-	if err := t.WriteBettiSVG(&b, 0); err != nil {
+	if err := BettiSVG(&b, t, 0); err != nil {
 		return ""
 	}
 	return b.String()

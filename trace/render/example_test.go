@@ -2,25 +2,27 @@
 // Use of this source code is governed by a BSD-style
 // license that can be found in the LICENSE file.
 
-package trace_test
+package render_test
 
 import (
 	"bytes"
 	"fmt"
 	"strings"
+
+	"crease.dev/crease/trace/render"
 )
 
-// ExampleTrace_WriteHTML writes the self-contained report of a trace:
+// ExampleHTML writes the self-contained report of a trace:
 // one inline SVG per Betti dimension, one for the collapse measures and
 // one barcode per stage.
-func ExampleTrace_WriteHTML() {
+func ExampleHTML() {
 	tr, err := twoRingTrace() // two rings through an identity, a ReLU and a projection
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
 	var b bytes.Buffer
-	if err := tr.WriteHTML(&b); err != nil {
+	if err := render.HTML(&b, tr); err != nil {
 		fmt.Println(err)
 		return
 	}
@@ -33,21 +35,21 @@ func ExampleTrace_WriteHTML() {
 	// scripts: 0
 }
 
-// ExampleTrace_WriteBettiSVG plots β₁ of each class across the stages.
-func ExampleTrace_WriteBettiSVG() {
+// ExampleBettiSVG plots β₁ of each class across the stages.
+func ExampleBettiSVG() {
 	tr, err := twoRingTrace()
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
 	var b bytes.Buffer
-	if err := tr.WriteBettiSVG(&b, 1); err != nil {
+	if err := render.BettiSVG(&b, tr, 1); err != nil {
 		fmt.Println(err)
 		return
 	}
 	fmt.Println(strings.Contains(b.String(), "<svg"), strings.Contains(b.String(), "high"))
-	fmt.Println(tr.WriteBettiSVG(&b, 3))
+	fmt.Println(render.BettiSVG(&b, tr, 3))
 	// Output:
 	// true true
-	// trace: render: dimension 3 outside 0..1
+	// render: dimension 3 outside 0..1
 }

@@ -2,9 +2,11 @@
 // Use of this source code is governed by a BSD-style
 // license that can be found in the LICENSE file.
 
-package trace
+package render
 
 import (
+	"crease.dev/crease/trace"
+
 	"bytes"
 	"fmt"
 	"html"
@@ -13,7 +15,7 @@ import (
 	"time"
 )
 
-// WriteHTML writes a self-contained HTML report of the trace: the model,
+// HTML writes a self-contained HTML report of the trace: the model,
 // sample and settings, the per-stage table, the Betti numbers of every
 // class across stages (one plot per homology dimension), the gluing and folding
 // measures across stages, and a barcode of every stage (the whole
@@ -21,7 +23,7 @@ import (
 // SVG; the page loads nothing (no scripts, fonts or styles from
 // elsewhere), so a browser opens it offline and a notebook can display
 // it. It returns the first error of a plot or of w.
-func (t *Trace) WriteHTML(w io.Writer) error {
+func HTML(w io.Writer, t *trace.Trace) error {
 	var b bytes.Buffer
 	e := html.EscapeString
 	b.WriteString("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\"/>\n")
@@ -86,13 +88,13 @@ svg{max-width:100%;height:auto}
 		}
 	}
 	b.WriteString("</table>\n<p class=\"note\">Betti numbers are written (β₀,β₁,…); a “?” follows a dimension the sample cannot decide (the number before it is the best guess).</p>\n")
-	if k := t.First(0, AllSimple); k >= 0 {
+	if k := t.First(0, trace.AllSimple); k >= 0 {
 		fmt.Fprintf(&b, "<p>Every class is first one component with no holes at stage %d (%s), %s.</p>\n",
 			k, e(string(t.Stages[k].Kind)), yesNo(simpleFrom(t, k)))
 	} else {
 		b.WriteString("<p>At no stage is every class one component with no holes.</p>\n")
 	}
-	if k := t.First(1, CrossGlued); k >= 0 {
+	if k := t.First(1, trace.CrossGlued); k >= 0 {
 		fmt.Fprintf(&b, "<p>Points of different classes are first glued together at stage %d (%s): %d pair(s).</p>\n",
 			k, e(string(t.Stages[k].Kind)), t.Stages[k].Glued.Cross)
 	} else if len(t.Stages) > 1 {
@@ -102,20 +104,20 @@ svg{max-width:100%;height:auto}
 	b.WriteString("<h2>Betti numbers across stages</h2>\n")
 	for d := 0; d <= t.Settings.MaxDim; d++ {
 		if err := figure(&b, fmt.Sprintf("β%s of each class (solid) and of the whole sample (dashed) at every stage.", subscript(d)),
-			func(w io.Writer) error { return t.WriteBettiSVG(w, d) }); err != nil {
+			func(w io.Writer) error { return BettiSVG(w, t, d) }); err != nil {
 			return err
 		}
 	}
 	if len(t.Stages) > 1 {
 		b.WriteString("<h2>Gluing and folding across stages</h2>\n")
-		if err := figure(&b, "Pairs of points each stage glues together, and what ReLU-type stages do to the points.", t.WriteGluingSVG); err != nil {
+		if err := figure(&b, "Pairs of points each stage glues together, and what ReLU-type stages do to the points.", func(w io.Writer) error { return GluingSVG(w, t) }); err != nil {
 			return err
 		}
 	}
 	if hasSeparation(t) {
 		b.WriteString("<h2>Separation across stages</h2>\n")
 		fmt.Fprintf(&b, "<p>%s.</p>\n", e(t.Separation().String()))
-		if err := figure(&b, "Leave-one-out k-NN accuracy, 5-fold linear-probe accuracy and, at softmax stages, the share of points inside their own class's Voronoi cell (top); each class's k-NN accuracy (bottom).", t.WriteSeparationSVG); err != nil {
+		if err := figure(&b, "Leave-one-out k-NN accuracy, 5-fold linear-probe accuracy and, at softmax stages, the share of points inside their own class's Voronoi cell (top); each class's k-NN accuracy (bottom).", func(w io.Writer) error { return SeparationSVG(w, t) }); err != nil {
 			return err
 		}
 	}
@@ -124,7 +126,7 @@ svg{max-width:100%;height:auto}
 		s := &t.Stages[i]
 		if len(s.Whole.Bars) > 0 {
 			if err := figure(&b, fmt.Sprintf("Stage %d (%s), whole sample.", s.Index, s.Kind),
-				func(w io.Writer) error { return t.WriteBarcodeSVG(w, i, "") }); err != nil {
+				func(w io.Writer) error { return BarcodeSVG(w, t, i, "") }); err != nil {
 				return err
 			}
 			continue
@@ -135,7 +137,7 @@ svg{max-width:100%;height:auto}
 			}
 			name := s.Classes[c].Label
 			if err := figure(&b, fmt.Sprintf("Stage %d (%s), class %s.", s.Index, s.Kind, name),
-				func(w io.Writer) error { return t.WriteBarcodeSVG(w, i, name) }); err != nil {
+				func(w io.Writer) error { return BarcodeSVG(w, t, i, name) }); err != nil {
 				return err
 			}
 		}
@@ -145,11 +147,11 @@ svg{max-width:100%;height:auto}
 	return err
 }
 
-// HTML returns the report of WriteHTML, or a short HTML error message if
+// HTMLString returns the report of HTML, or a short HTML error message if
 // a plot fails. It is meant for notebooks that display HTML.
-func (t *Trace) HTML() string {
+func HTMLString(t *trace.Trace) string {
 	var b bytes.Buffer
-	if err := t.WriteHTML(&b); err != nil {
+	if err := HTML(&b, t); err != nil {
 		return "<p>crease: " + html.EscapeString(err.Error()) + "</p>"
 	}
 	return b.String()
@@ -172,7 +174,7 @@ func figure(b *bytes.Buffer, caption string, plot func(io.Writer) error) error {
 	return nil
 }
 
-func settingsLine(s *Settings) string {
+func settingsLine(s *trace.Settings) string {
 	rule := s.RuleText()
 	cap := "none"
 	if s.Cap > 0 {
@@ -183,9 +185,9 @@ func settingsLine(s *Settings) string {
 
 // simpleFrom reports whether every class stays simple from stage k to
 // the last stage.
-func simpleFrom(t *Trace, k int) bool {
+func simpleFrom(t *trace.Trace, k int) bool {
 	for i := k; i < len(t.Stages); i++ {
-		if !AllSimple(&t.Stages[i]) {
+		if !trace.AllSimple(&t.Stages[i]) {
 			return false
 		}
 	}
@@ -200,7 +202,7 @@ func yesNo(v bool) string {
 }
 
 // hasSeparation reports whether some stage has a separation measure.
-func hasSeparation(t *Trace) bool {
+func hasSeparation(t *trace.Trace) bool {
 	for i := range t.Stages {
 		for _, k := range []string{"knn.accuracy", "probe.accuracy", "voronoi.inside"} {
 			if _, ok := t.Stages[i].Measures[k]; ok {

@@ -2,7 +2,7 @@
 // Use of this source code is governed by a BSD-style
 // license that can be found in the LICENSE file.
 
-package trace_test
+package render_test
 
 import (
 	"bytes"
@@ -17,6 +17,7 @@ import (
 
 	"crease.dev/crease/onnxload"
 	"crease.dev/crease/trace"
+	"crease.dev/crease/trace/render"
 )
 
 // renderTrace traces two rings of 24 points (each β = (1, 1), Hatcher,
@@ -83,11 +84,11 @@ func TestRenderSVG(t *testing.T) {
 		render func(io.Writer) error
 		want   []string // texts the plot must show
 	}{
-		{"betti0", func(w io.Writer) error { return tr.WriteBettiSVG(w, 0) }, []string{"high", "low", "whole sample"}},
-		{"betti1", func(w io.Writer) error { return tr.WriteBettiSVG(w, 1) }, []string{"high", "low"}},
-		{"gluing", tr.WriteGluingSVG, []string{"glued cross (different classes)", "glued within (same class)"}},
-		{"barcode-whole", func(w io.Writer) error { return tr.WriteBarcodeSVG(w, 0, "") }, []string{"H0", "H1", "whole sample"}},
-		{"barcode-class", func(w io.Writer) error { return tr.WriteBarcodeSVG(w, 3, "low") }, []string{"H0", "class low"}},
+		{"betti0", func(w io.Writer) error { return render.BettiSVG(w, tr, 0) }, []string{"high", "low", "whole sample"}},
+		{"betti1", func(w io.Writer) error { return render.BettiSVG(w, tr, 1) }, []string{"high", "low"}},
+		{"gluing", func(w io.Writer) error { return render.GluingSVG(w, tr) }, []string{"glued cross (different classes)", "glued within (same class)"}},
+		{"barcode-whole", func(w io.Writer) error { return render.BarcodeSVG(w, tr, 0, "") }, []string{"H0", "H1", "whole sample"}},
+		{"barcode-class", func(w io.Writer) error { return render.BarcodeSVG(w, tr, 3, "low") }, []string{"H0", "class low"}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			var b bytes.Buffer
@@ -112,11 +113,11 @@ func TestRenderErrors(t *testing.T) {
 		name, want string
 		err        error
 	}{
-		{"dim above maxdim", "dimension 2 outside 0..1", tr.WriteBettiSVG(io.Discard, 2)},
-		{"negative dim", "dimension -1", tr.WriteBettiSVG(io.Discard, -1)},
-		{"no such stage", "no stage 9", tr.WriteBarcodeSVG(io.Discard, 9, "")},
-		{"no such class", `no class "mid"`, tr.WriteBarcodeSVG(io.Discard, 1, "mid")},
-		{"empty trace", "no stages", (&trace.Trace{}).WriteBettiSVG(io.Discard, 0)},
+		{"dim above maxdim", "dimension 2 outside 0..1", render.BettiSVG(io.Discard, tr, 2)},
+		{"negative dim", "dimension -1", render.BettiSVG(io.Discard, tr, -1)},
+		{"no such stage", "no stage 9", render.BarcodeSVG(io.Discard, tr, 9, "")},
+		{"no such class", `no class "mid"`, render.BarcodeSVG(io.Discard, tr, 1, "mid")},
+		{"empty trace", "no stages", render.BettiSVG(io.Discard, &trace.Trace{}, 0)},
 	} {
 		if tc.err == nil || !strings.Contains(tc.err.Error(), tc.want) {
 			t.Errorf("%s: error %v, want one containing %q", tc.name, tc.err, tc.want)
@@ -129,7 +130,7 @@ func TestRenderErrors(t *testing.T) {
 // script and no reference to anything outside the page.
 func TestRenderHTML(t *testing.T) {
 	tr := renderTrace(t)
-	page := tr.HTML()
+	page := render.HTMLString(tr)
 	if !strings.HasPrefix(page, "<!DOCTYPE html>") {
 		t.Fatalf("report does not start with a doctype: %.40q", page)
 	}
@@ -152,15 +153,15 @@ func TestRenderHTML(t *testing.T) {
 	if !strings.Contains(page, "first glued together at stage 3") {
 		t.Errorf("report does not name stage 3 as the first cross-class gluing")
 	}
-	if tr.HTML() != page {
+	if render.HTMLString(tr) != page {
 		t.Error("two renderings of one trace differ")
 	}
 }
 
-func BenchmarkWriteHTML(b *testing.B) {
+func BenchmarkHTML(b *testing.B) {
 	tr := renderTrace(b)
 	for b.Loop() {
-		if err := tr.WriteHTML(io.Discard); err != nil {
+		if err := render.HTML(io.Discard, tr); err != nil {
 			b.Fatal(err)
 		}
 	}
