@@ -121,39 +121,48 @@ func isStageMeasure(m string) bool {
 	return true
 }
 
-// WriteTable writes a readable per-stage table: stage, kind, width, the
-// whole sample's Betti numbers, each class's Betti numbers, the glued
-// pair counts, and the separation of the classes: leave-one-out k-NN
-// accuracy ("knn.accuracy"), linear-probe accuracy ("probe.accuracy")
-// and the margin ratio ("margin.ratio"), "-" where not measured.
-func (t *Trace) WriteTable(w io.Writer) error {
-	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-	fmt.Fprint(tw, "stage\tkind\twidth\twhole")
-	for _, c := range t.Sample.Classes {
-		fmt.Fprintf(tw, "\t%s", c)
-	}
-	fmt.Fprint(tw, "\tglued within\tglued cross\tknn\tprobe\tmargin\n")
+// Table returns the per-stage table that WriteTable prints and the
+// report shows, as a header and one row of cells per stage: stage,
+// kind, width, the whole sample's Betti numbers, each class's Betti
+// numbers, the glued pair counts, and the separation of the classes:
+// leave-one-out k-NN accuracy ("knn.accuracy"), linear-probe accuracy
+// ("probe.accuracy") and the margin ratio ("margin.ratio"), "-" where
+// not measured.
+func (t *Trace) Table() (header []string, rows [][]string) {
+	header = append([]string{"stage", "kind", "width", "whole"}, t.Sample.Classes...)
+	header = append(header, "glued within", "glued cross", "knn", "probe", "margin")
 	for i := range t.Stages {
 		s := &t.Stages[i]
-		fmt.Fprintf(tw, "%d\t%s\t%d\t%s", s.Index, s.Kind, s.Width, s.Whole.BettiString())
+		row := []string{strconv.Itoa(s.Index), string(s.Kind), strconv.Itoa(s.Width), s.Whole.BettiString()}
 		for c := range s.Classes {
-			fmt.Fprintf(tw, "\t%s", s.Classes[c].BettiString())
+			row = append(row, s.Classes[c].BettiString())
 		}
 		if s.Glued != nil {
-			fmt.Fprintf(tw, "\t%d\t%d", s.Glued.Within, s.Glued.Cross)
+			row = append(row, strconv.Itoa(s.Glued.Within), strconv.Itoa(s.Glued.Cross))
 		} else {
-			fmt.Fprint(tw, "\t-\t-")
+			row = append(row, "-", "-")
 		}
 		for _, m := range [...]struct {
 			name, format string
 		}{{"knn.accuracy", "%.3f"}, {"probe.accuracy", "%.3f"}, {"margin.ratio", "%.3g"}} {
 			if v, ok := s.Measures[m.name]; ok {
-				fmt.Fprintf(tw, "\t"+m.format, v)
+				row = append(row, fmt.Sprintf(m.format, v))
 			} else {
-				fmt.Fprint(tw, "\t-")
+				row = append(row, "-")
 			}
 		}
-		fmt.Fprintln(tw)
+		rows = append(rows, row)
+	}
+	return header, rows
+}
+
+// WriteTable writes Table, aligned in columns.
+func (t *Trace) WriteTable(w io.Writer) error {
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	header, rows := t.Table()
+	fmt.Fprintln(tw, strings.Join(header, "\t"))
+	for _, r := range rows {
+		fmt.Fprintln(tw, strings.Join(r, "\t"))
 	}
 	return tw.Flush()
 }

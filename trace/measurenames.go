@@ -81,7 +81,7 @@ var measureTable = []MeasureInfo{
 	{Name: "fold.shared_points", Label: "points in shared patterns", Meaning: "points whose activation pattern is shared with another class", Range: "count", Better: "lower", Scope: ScopePiecewise, Stage: true},
 
 	{Name: "knn.k", Label: "k", Meaning: "neighbour count of the k-NN agreement", Range: "count", Scope: ScopeEvery, Stage: true},
-	{Name: "knn.accuracy", Label: "knn", Meaning: "share of points whose k nearest neighbours vote for their class", Range: "[0, 1]", Better: "higher", Scope: ScopeEvery, Stage: true, Class: true, Share: true},
+	{Name: "knn.accuracy", Label: "k-NN accuracy", Meaning: "share of points whose k nearest neighbours vote for their class", Range: "[0, 1]", Better: "higher", Scope: ScopeEvery, Stage: true, Class: true, Share: true},
 	{Name: "knn.share", Label: "neighbour share", Meaning: "mean share of a point's k nearest neighbours in its class", Range: "[0, 1]", Better: "higher", Scope: ScopeEvery, Stage: true},
 	{Name: "margin.cross", Label: "cross distance", Meaning: "smallest distance between points of different classes", Range: "distance", Better: "higher", Scope: ScopeEvery, Stage: true},
 	{Name: "margin.within", Label: "within distance", Meaning: "mean distance from a point to its nearest classmate", Range: "distance", Scope: ScopeEvery, Stage: true},
@@ -92,7 +92,7 @@ var measureTable = []MeasureInfo{
 	{Name: "silhouette.score", Label: "silhouette", Meaning: "mean silhouette width of the classes", Range: "[-1, 1]", Better: "higher", Scope: ScopeEvery, Stage: true, Class: true},
 	{Name: "nc1.value", Label: "NC1", Meaning: "within-class variability relative to the between-class spread, tr(Σ_W Σ_B⁺)/C (neural collapse)", Range: "≥ 0", Better: "lower", Scope: ScopeEvery, Stage: true},
 	{Name: "nc1.rank", Label: "NC1 rank", Meaning: "eigenvalues of Σ_B kept in its pseudo-inverse", Range: "count", Scope: ScopeEvery, Stage: true},
-	{Name: "probe.accuracy", Label: "probe", Meaning: "cross-validated accuracy of a linear classifier (multinomial logistic regression)", Range: "[0, 1]", Better: "higher", Scope: ScopeEvery, Stage: true, Share: true},
+	{Name: "probe.accuracy", Label: "linear-probe accuracy", Meaning: "cross-validated accuracy of a linear classifier (multinomial logistic regression)", Range: "[0, 1]", Better: "higher", Scope: ScopeEvery, Stage: true, Share: true},
 	{Name: "probe.converged", Label: "probe converged", Meaning: "1 when every fold of the probe converged", Range: "0 or 1", Scope: ScopeEvery, Stage: true},
 	{Name: "twonn.dim", Label: "intrinsic dimension", Meaning: "TwoNN intrinsic-dimension estimate (Facco et al., 2017)", Range: "≥ 0", Scope: ScopeEvery, Stage: true},
 	{Name: "pca.dim90", Label: "PCA dim 90 %", Meaning: "principal components that carry 90 % of the variance", Range: "count", Scope: ScopeEvery, Stage: true},

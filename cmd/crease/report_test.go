@@ -37,9 +37,11 @@ func TestDemoAndReport(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	// The demo traces classes only, so each of the 7 stages has 3 barcodes.
-	if n := bytes.Count(page, []byte("<svg")); n != 2+1+1+7*3 {
-		t.Errorf("report has %d plots, want 25 (β0, β1, collapse, separation, 21 barcodes)", n)
+	// The demo traces classes only, so each of the 7 stages has 3
+	// barcodes; 18 class-overlap measures are recorded (trace.Measures:
+	// every overlap measure but knn.k and probe.converged).
+	if n := bytes.Count(page, []byte("<svg")); n != 2+1+1+18+7*3 {
+		t.Errorf("report has %d plots, want 43 (β0, β1, collapse, separation, 18 overlap measures, 21 barcodes)", n)
 	}
 
 	bad := filepath.Join(dir, "bad.json")

@@ -12,9 +12,9 @@ import (
 	"crease.dev/crease/trace/render"
 )
 
-// ExampleHTML writes the self-contained report of a trace:
-// one inline SVG per Betti dimension, one for the collapse measures and
-// one barcode per stage.
+// ExampleHTML writes the self-contained report of a trace: one inline
+// SVG per Betti dimension, one for the collapse measures, one for the
+// separation, one per class-overlap measure and one barcode per stage.
 func ExampleHTML() {
 	tr, err := twoRingTrace() // two rings through an identity, a ReLU and a projection
 	if err != nil {
@@ -31,7 +31,7 @@ func ExampleHTML() {
 	fmt.Println("scripts:", strings.Count(b.String(), "<script"))
 	// Output:
 	// stages: 4
-	// plots: 8
+	// plots: 23
 	// scripts: 0
 }
 

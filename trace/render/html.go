@@ -70,22 +70,22 @@ svg{max-width:100%;height:auto}
 	}
 	b.WriteString("</table>\n")
 
-	b.WriteString("<h2>Stages</h2>\n<table>\n<tr><th>stage</th><th class=\"l\">kind</th><th>width</th><th>whole</th>")
-	for _, c := range t.Sample.Classes {
-		fmt.Fprintf(&b, "<th>%s</th>", e(c))
+	b.WriteString("<h2>Stages</h2>\n<table>\n")
+	header, rows := t.Table()
+	tableRow := func(cells []string, tag string) {
+		b.WriteString("<tr>")
+		for k, c := range cells {
+			cls := ""
+			if k == 1 { // the kind column reads left-aligned
+				cls = ` class="l"`
+			}
+			fmt.Fprintf(&b, "<%s%s>%s</%s>", tag, cls, e(c), tag)
+		}
+		b.WriteString("</tr>\n")
 	}
-	b.WriteString("<th>glued within</th><th>glued cross</th></tr>\n")
-	for i := range t.Stages {
-		s := &t.Stages[i]
-		fmt.Fprintf(&b, "<tr><td>%d</td><td class=\"l\">%s</td><td>%d</td><td>%s</td>", s.Index, e(string(s.Kind)), s.Width, s.Whole.BettiString())
-		for c := range s.Classes {
-			fmt.Fprintf(&b, "<td>%s</td>", s.Classes[c].BettiString())
-		}
-		if s.Glued != nil {
-			fmt.Fprintf(&b, "<td>%d</td><td>%d</td></tr>\n", s.Glued.Within, s.Glued.Cross)
-		} else {
-			b.WriteString("<td>-</td><td>-</td></tr>\n")
-		}
+	tableRow(header, "th")
+	for _, r := range rows {
+		tableRow(r, "td")
 	}
 	b.WriteString("</table>\n<p class=\"note\">Betti numbers are written (β₀,β₁,…); a “?” follows a dimension the sample cannot decide (the number before it is the best guess).</p>\n")
 	if k := t.First(0, trace.AllSimple); k >= 0 {
@@ -103,7 +103,11 @@ svg{max-width:100%;height:auto}
 
 	b.WriteString("<h2>Betti numbers across stages</h2>\n")
 	for d := 0; d <= t.Settings.MaxDim; d++ {
-		if err := figure(&b, fmt.Sprintf("β%s of each class (solid) and of the whole sample (dashed) at every stage.", subscript(d)),
+		caption := fmt.Sprintf("β%s of each class at every stage.", subscript(d))
+		if hasWhole(t) {
+			caption = fmt.Sprintf("β%s of each class (solid) and of the whole sample (dashed grey) at every stage.", subscript(d))
+		}
+		if err := figure(&b, caption,
 			func(w io.Writer) error { return BettiSVG(w, t, d) }); err != nil {
 			return err
 		}
@@ -119,6 +123,22 @@ svg{max-width:100%;height:auto}
 		fmt.Fprintf(&b, "<p>%s.</p>\n", e(t.Separation().String()))
 		if err := figure(&b, "Leave-one-out k-NN accuracy, 5-fold linear-probe accuracy and, at softmax stages, the share of points inside their own class's Voronoi cell (top); each class's k-NN accuracy (bottom).", func(w io.Writer) error { return SeparationSVG(w, t) }); err != nil {
 			return err
+		}
+	}
+	if names := OverlapMeasures(t); len(names) > 0 {
+		b.WriteString("<h2>Every class-overlap measure across stages</h2>\n")
+		for _, name := range names {
+			m, _ := trace.LookupMeasure(name)
+			caption := fmt.Sprintf("%s (%s): %s; %s", m.Label, name, m.Meaning, m.Range)
+			if m.Better != "" {
+				caption += ", " + m.Better + " is better"
+			}
+			if m.Class {
+				caption += "; black: the stage, colours and shapes: each class"
+			}
+			if err := figure(&b, caption+".", func(w io.Writer) error { return MeasureSVG(w, t, name) }); err != nil {
+				return err
+			}
 		}
 	}
 	b.WriteString("<h2>Barcodes</h2>\n")
@@ -208,6 +228,17 @@ func hasSeparation(t *trace.Trace) bool {
 			if _, ok := t.Stages[i].Measures[k]; ok {
 				return true
 			}
+		}
+	}
+	return false
+}
+
+// hasWhole reports whether the trace recorded the whole sample's
+// homology.
+func hasWhole(t *trace.Trace) bool {
+	for i := range t.Stages {
+		if len(t.Stages[i].Whole.Betti) > 0 {
+			return true
 		}
 	}
 	return false

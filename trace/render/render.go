@@ -14,6 +14,7 @@ import (
 	"math"
 	"sort"
 	"strconv"
+	"strings"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
@@ -24,27 +25,28 @@ import (
 
 // Plot sizes of the SVG renderings.
 const (
-	plotWidth  = 6 * vg.Inch
+	plotWidth  = 7.5 * vg.Inch
 	plotHeight = 3.2 * vg.Inch
 )
 
-// palette holds the line colours of classes, in class order; the whole
-// sample is drawn in grey.
+// palette holds the colours of classes, in class order (the whole sample
+// is drawn in grey): our own twelve, chosen by testdata/gen/palette.go
+// to stay apart for normal vision (CIE ΔE*ab ≥ 43) and, together with
+// each class's marker shape, for protanopia and deuteranopia (ΔE*ab ≥
+// 20; TestPalette).
 var palette = []color.Color{
-	color.RGBA{R: 0x1f, G: 0x77, B: 0xb4, A: 0xff},
-	color.RGBA{R: 0xd6, G: 0x27, B: 0x28, A: 0xff},
-	color.RGBA{R: 0x2c, G: 0xa0, B: 0x2c, A: 0xff},
-	color.RGBA{R: 0x94, G: 0x67, B: 0xbd, A: 0xff},
-	color.RGBA{R: 0xff, G: 0x7f, B: 0x0e, A: 0xff},
-	color.RGBA{R: 0x8c, G: 0x56, B: 0x4b, A: 0xff},
-	color.RGBA{R: 0xe3, G: 0x77, B: 0xc2, A: 0xff},
-	color.RGBA{R: 0x17, G: 0xbe, B: 0xcf, A: 0xff},
-}
-
-// shapes are the point markers of series, in order.
-var shapes = []draw.GlyphDrawer{
-	draw.CircleGlyph{}, draw.SquareGlyph{}, draw.TriangleGlyph{},
-	draw.PlusGlyph{}, draw.CrossGlyph{}, draw.RingGlyph{}, draw.BoxGlyph{}, draw.PyramidGlyph{},
+	color.RGBA{R: 0x1a, G: 0x40, B: 0xa6, A: 0xff},
+	color.RGBA{R: 0x00, G: 0xcc, B: 0x00, A: 0xff},
+	color.RGBA{R: 0x66, G: 0x33, B: 0x00, A: 0xff},
+	color.RGBA{R: 0x00, G: 0xbf, B: 0xbf, A: 0xff},
+	color.RGBA{R: 0x00, G: 0x00, B: 0xff, A: 0xff},
+	color.RGBA{R: 0xf2, G: 0x0d, B: 0x73, A: 0xff},
+	color.RGBA{R: 0xff, G: 0x26, B: 0xff, A: 0xff},
+	color.RGBA{R: 0xb3, G: 0xb3, B: 0x66, A: 0xff},
+	color.RGBA{R: 0x33, G: 0x4d, B: 0x40, A: 0xff},
+	color.RGBA{R: 0x80, G: 0x00, B: 0x66, A: 0xff},
+	color.RGBA{R: 0x40, G: 0x80, B: 0xb3, A: 0xff},
+	color.RGBA{R: 0xe6, G: 0x8c, B: 0xf2, A: 0xff},
 }
 
 var grey = color.RGBA{R: 0x70, G: 0x70, B: 0x70, A: 0xff}
@@ -87,47 +89,112 @@ func newStagePlot(t *trace.Trace, title, ylabel string) *plot.Plot {
 	return p
 }
 
-// addSeries adds a line with point markers to p.
+// addSeries adds point markers to p and lines between points of
+// consecutive stages (xy's X values are stage indices): no line is drawn
+// across a stage where the measure is undefined.
 func addSeries(p *plot.Plot, name string, xy plotter.XYs, c color.Color, dashed bool, shape int) error {
 	if len(xy) == 0 {
 		return nil
 	}
-	l, s, err := plotter.NewLinePoints(xy)
+	s, err := plotter.NewScatter(xy)
 	if err != nil {
 		return err
-	}
-	l.Color = c
-	l.Width = vg.Points(1.5)
-	if dashed {
-		l.Dashes = []vg.Length{vg.Points(4), vg.Points(3)}
 	}
 	s.Color = c
 	s.Shape = shapes[shape%len(shapes)]
 	s.Radius = vg.Points(2.5)
-	p.Add(l, s)
-	p.Legend.Add(name, l, s)
+	style := draw.LineStyle{Color: c, Width: vg.Points(1.5)}
+	if dashed {
+		style.Dashes = []vg.Length{vg.Points(4), vg.Points(3)}
+	}
+	var first *plotter.Line
+	for lo := 0; lo < len(xy); {
+		hi := lo + 1
+		for hi < len(xy) && xy[hi].X-xy[hi-1].X <= 1 {
+			hi++
+		}
+		if hi-lo > 1 {
+			l, err := plotter.NewLine(xy[lo:hi])
+			if err != nil {
+				return err
+			}
+			l.LineStyle = style
+			p.Add(l)
+			if first == nil {
+				first = l
+			}
+		}
+		lo = hi
+	}
+	p.Add(s)
+	if first == nil {
+		first = &plotter.Line{LineStyle: style}
+	}
+	p.Legend.Add(name, first, s)
 	return nil
 }
 
-// writePlot renders p as SVG to w.
+// legendGap is the space between a plot's data area and its legend.
+const legendGap = 6 * vg.Millimeter
+
+// drawOutside draws p on c with its legend to the right of the data
+// area, outside it, so that no entry hides a point.
+func drawOutside(c draw.Canvas, p *plot.Plot) {
+	leg := p.Legend
+	w := leg.Rectangle(c).Size().X
+	if w <= 0 {
+		p.Draw(c)
+		return
+	}
+	p.Legend = plot.NewLegend()
+	leg.Top, leg.Left = true, true
+	data, side := c, c
+	data.Max.X = c.Max.X - w - legendGap
+	side.Min.X = data.Max.X + legendGap
+	p.Draw(data)
+	leg.Draw(side)
+	p.Legend = leg
+}
+
+// writePlot renders p as SVG to w, its legend outside the data.
 func writePlot(w io.Writer, p *plot.Plot, width, height vg.Length) error {
 	c := vgsvg.New(width, height)
-	p.Draw(draw.New(c))
+	drawOutside(draw.New(c), p)
 	_, err := c.WriteTo(w)
 	return err
 }
 
 // writePanels draws the plots one above the other on c, their data
-// areas aligned.
+// areas aligned and their legends outside to the right.
 func writePanels(c draw.Canvas, ps ...*plot.Plot) {
+	var w vg.Length
+	for _, p := range ps {
+		w = max(w, p.Legend.Rectangle(c).Size().X)
+	}
+	legs := make([]plot.Legend, len(ps))
+	for i, p := range ps {
+		legs[i] = p.Legend
+		p.Legend = plot.NewLegend()
+	}
+	data := c
+	if w > 0 {
+		data.Max.X = c.Max.X - w - legendGap
+	}
 	rows := make([][]*plot.Plot, len(ps))
 	for i, p := range ps {
 		rows[i] = []*plot.Plot{p}
 	}
 	tiles := draw.Tiles{Rows: len(ps), Cols: 1, PadY: vg.Points(6)}
-	canvases := plot.Align(rows, tiles, c)
+	canvases := plot.Align(rows, tiles, data)
 	for i, p := range ps {
 		p.Draw(canvases[i][0])
+		if legs[i].Rectangle(c).Size().X > 0 {
+			side := canvases[i][0]
+			side.Min.X, side.Max.X = data.Max.X+legendGap, c.Max.X
+			legs[i].Top, legs[i].Left = true, true
+			legs[i].Draw(side)
+		}
+		p.Legend = legs[i]
 	}
 }
 
@@ -465,3 +532,99 @@ func SVG(t *trace.Trace) string {
 	}
 	return b.String()
 }
+
+// overlapPrefixes are the families of class-overlap measures the report
+// plots one by one.
+var overlapPrefixes = []string{"knn.", "margin.", "fisher.", "silhouette.", "nc1.", "probe.", "twonn.", "pca.", "voronoi."}
+
+// OverlapMeasures returns the class-overlap measures the trace records
+// (in the order of trace.Measures), leaving out the settings knn.k and
+// probe.converged.
+func OverlapMeasures(t *trace.Trace) []string {
+	have := map[string]bool{}
+	for _, n := range t.MeasureNames() {
+		have[n] = true
+	}
+	var out []string
+	for _, m := range trace.Measures() {
+		if !have[m.Name] || m.Name == "knn.k" || m.Name == "probe.converged" {
+			continue
+		}
+		for _, p := range overlapPrefixes {
+			if strings.HasPrefix(m.Name, p) {
+				out = append(out, m.Name)
+				break
+			}
+		}
+	}
+	return out
+}
+
+// MeasureSVG writes an SVG plot of one measure across the stages: the
+// stage's value (black) and, for a per-class measure, each class's (in
+// class colours and shapes). Stages where it is undefined have no point
+// and no line through them; a ratio is drawn on a log scale. It returns
+// an error for a name the measure table does not know or a measure the
+// trace never records.
+func MeasureSVG(w io.Writer, t *trace.Trace, name string) error {
+	m, ok := trace.LookupMeasure(name)
+	if !ok {
+		return trace.CheckMeasure(name)
+	}
+	ylabel := m.Range
+	if m.Better != "" {
+		ylabel += ", " + m.Better + " is better"
+	}
+	p := newStagePlot(t, m.Label+" ("+name+")", ylabel)
+	logScale := m.Ratio
+	points := func(class string) plotter.XYs {
+		var xy plotter.XYs
+		for i := range t.Stages {
+			v, ok := t.Stages[i].Value(class, name)
+			if !ok || math.IsNaN(v) || math.IsInf(v, 0) || (logScale && v <= 0) {
+				continue
+			}
+			xy = append(xy, plotter.XY{X: float64(t.Stages[i].Index), Y: v})
+		}
+		return xy
+	}
+	n := 0
+	if m.Stage {
+		xy := points("")
+		n += len(xy)
+		if err := addSeries(p, "stage", xy, color.Black, false, len(t.Sample.Classes)); err != nil {
+			return err
+		}
+	}
+	if m.Class {
+		for c, label := range t.Sample.Classes {
+			xy := points(label)
+			n += len(xy)
+			if err := addSeries(p, label, xy, classColor(c), false, c); err != nil {
+				return err
+			}
+		}
+	}
+	if n == 0 {
+		return fmt.Errorf("render: the trace records no %s", name)
+	}
+	if logScale {
+		p.Y.Scale = plot.LogScale{}
+		p.Y.Tick.Marker = plot.LogTicks{Prec: -1}
+	}
+	return writePlot(w, p, plotWidth, plotHeight*0.8)
+}
+
+// Palette returns the class colours as sRGB components in [0, 1], in
+// class order.
+func Palette() [][3]float64 {
+	out := make([][3]float64, len(palette))
+	for i, c := range palette {
+		r, g, b, _ := c.RGBA()
+		out[i] = [3]float64{float64(r) / 0xffff, float64(g) / 0xffff, float64(b) / 0xffff}
+	}
+	return out
+}
+
+// Shapes returns the number of distinct class marker shapes.
+func Shapes() int { return len(shapes) }

@@ -15,6 +15,7 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
+	"crease.dev/crease/internal/colour"
 	"crease.dev/crease/onnxload"
 	"crease.dev/crease/trace"
 	"crease.dev/crease/trace/render"
@@ -126,7 +127,8 @@ func TestRenderErrors(t *testing.T) {
 }
 
 // TestRenderHTML checks that the report is self-contained: one inline
-// SVG per plot (β₀, β₁, collapse, separation, a barcode per stage), no
+// SVG per plot (β₀, β₁, collapse, separation, each overlap measure, a
+// barcode per stage), no
 // script and no reference to anything outside the page.
 func TestRenderHTML(t *testing.T) {
 	tr := renderTrace(t)
@@ -135,7 +137,7 @@ func TestRenderHTML(t *testing.T) {
 		t.Fatalf("report does not start with a doctype: %.40q", page)
 	}
 	body := strings.TrimPrefix(page, "<!DOCTYPE html>\n")
-	want := (tr.Settings.MaxDim + 1) + 1 + 1 + len(tr.Stages)
+	want := (tr.Settings.MaxDim + 1) + 1 + 1 + len(render.OverlapMeasures(tr)) + len(tr.Stages)
 	if n := wellFormed(t, "report", []byte(body), "svg"); n != want {
 		t.Errorf("report has %d <svg> elements, want %d", n, want)
 	}
@@ -163,6 +165,61 @@ func BenchmarkHTML(b *testing.B) {
 	for b.Loop() {
 		if err := render.HTML(io.Discard, tr); err != nil {
 			b.Fatal(err)
+		}
+	}
+}
+
+// TestMeasureSVG plots every class-overlap measure of a trace and checks
+// the report holds one figure for each, and that an unknown or absent
+// measure is refused by name.
+func TestMeasureSVG(t *testing.T) {
+	tr := renderTrace(t)
+	names := render.OverlapMeasures(tr)
+	if len(names) < 10 {
+		t.Fatalf("only %d overlap measures: %v", len(names), names)
+	}
+	for _, name := range names {
+		var b bytes.Buffer
+		if err := render.MeasureSVG(&b, tr, name); err != nil {
+			t.Errorf("%s: %v", name, err)
+			continue
+		}
+		wellFormed(t, name, b.Bytes(), name)
+	}
+	page := render.HTMLString(tr)
+	for _, name := range names {
+		if !strings.Contains(page, "("+name+")") {
+			t.Errorf("the report has no figure of %s", name)
+		}
+	}
+	if err := render.MeasureSVG(io.Discard, tr, "knn.acuracy"); err == nil || !strings.Contains(err.Error(), "knn.accuracy") {
+		t.Errorf("misspelt measure: %v", err)
+	}
+	if err := render.MeasureSVG(io.Discard, tr, "voronoi.own_min"); err == nil || !strings.Contains(err.Error(), "records no voronoi.own_min") {
+		t.Errorf("absent measure: %v", err)
+	}
+}
+
+// TestPalette checks the class colours and shapes: twelve of each, all
+// distinct; the colours at least 40 CIE ΔE*ab apart to normal vision and
+// 20 apart with protanopia or deuteranopia (internal/colour).
+func TestPalette(t *testing.T) {
+	cols := render.Palette()
+	if len(cols) < 12 || render.Shapes() < 12 {
+		t.Fatalf("%d colours and %d shapes, want at least 12 of each", len(cols), render.Shapes())
+	}
+	for i := range cols {
+		for j := range i {
+			for _, v := range colour.Visions {
+				d := colour.Distance(v, cols[i], cols[j])
+				bound := 20.0
+				if v == colour.Normal {
+					bound = 40
+				}
+				if d < bound {
+					t.Errorf("colours %d and %d are %.1f apart with vision %d, want at least %v", i, j, d, v, bound)
+				}
+			}
 		}
 	}
 }
