@@ -9,6 +9,7 @@ import (
 	"math"
 	"slices"
 	"sort"
+	"strings"
 
 	"crease.dev/crease/homology"
 )
@@ -58,8 +59,9 @@ type StageComparison struct {
 	Whole   GroupComparison
 	Classes []GroupComparison
 	// Measures holds B − A for every stage measure present in both
-	// (including glued.* counts).
-	Measures map[string]float64
+	// (including glued.* counts), and Relative the same change relative
+	// to the larger magnitude, (B − A)/max(|A|, |B|), 0 when both are 0.
+	Measures, Relative map[string]float64
 	// Max is the largest bottleneck distance or measure change here.
 	Max float64
 }
@@ -101,7 +103,7 @@ func Compare(a, b *Trace, set *CompareSettings) (*Comparison, error) {
 	for _, p := range pairs {
 		i := p[0]
 		sa, sb := &a.Stages[p[0]], &b.Stages[p[1]]
-		sc := StageComparison{Index: p[0], IndexB: p[1], KindA: sa.Kind, KindB: sb.Kind, Measures: map[string]float64{}}
+		sc := StageComparison{Index: p[0], IndexB: p[1], KindA: sa.Kind, KindB: sb.Kind, Measures: map[string]float64{}, Relative: map[string]float64{}}
 		reason := ""
 		note := func(r string) {
 			if reason == "" {
@@ -164,6 +166,11 @@ func Compare(a, b *Trace, set *CompareSettings) (*Comparison, error) {
 			}
 			d := vb - va
 			sc.Measures[k] = d
+			if m := max(math.Abs(va), math.Abs(vb)); m > 0 {
+				sc.Relative[k] = d / m
+			} else {
+				sc.Relative[k] = 0
+			}
 			sc.Max = max(sc.Max, math.Abs(d))
 			if math.Abs(d) > set.Tol {
 				note(fmt.Sprintf("%s %.4g → %.4g", k, va, vb))
@@ -243,4 +250,48 @@ func abs(x int) int {
 		return -x
 	}
 	return x
+}
+
+// MaxBottleneck returns the largest bottleneck distance of the stage
+// pair over the whole sample and every class and dimension.
+func (s *StageComparison) MaxBottleneck() float64 {
+	var bn float64
+	for _, g := range append([]GroupComparison{s.Whole}, s.Classes...) {
+		for _, v := range g.Bottleneck {
+			bn = max(bn, v)
+		}
+	}
+	return bn
+}
+
+// ClassBetti describes the classes whose Betti numbers changed, as
+// "label [Δβ₀ Δβ₁ …]" joined by "; ", or "0" when none did.
+func (s *StageComparison) ClassBetti() string {
+	var classes []string
+	for _, g := range s.Classes {
+		if slices.ContainsFunc(g.Betti, func(d int) bool { return d != 0 }) {
+			classes = append(classes, fmt.Sprintf("%s %v", g.Label, g.Betti))
+		}
+	}
+	if len(classes) == 0 {
+		return "0"
+	}
+	return strings.Join(classes, "; ")
+}
+
+// TopMeasure returns the stage measure whose value changed most
+// relative to its size (Relative), with its change B − A and that
+// relative change; "" when no measure changed. Relative changes keep a
+// measure in large units (a scatter, a pair count) from hiding the rest.
+func (s *StageComparison) TopMeasure() (name string, delta, relative float64) {
+	var best float64
+	for _, k := range sortedKeys(s.Relative) {
+		if v := math.Abs(s.Relative[k]); v > best {
+			name, best = k, v
+		}
+	}
+	if name == "" {
+		return "", 0, 0
+	}
+	return name, s.Measures[name], s.Relative[name]
 }

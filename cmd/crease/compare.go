@@ -8,10 +8,8 @@ import (
 	"context"
 	"fmt"
 	"io"
-	"maps"
 	"math"
 	"os"
-	"slices"
 	"strings"
 	"text/tabwriter"
 
@@ -133,36 +131,17 @@ func runCompare(ctx context.Context, args []string, stdin io.Reader, stdout, std
 		fmt.Fprintln(stderr, "crease compare: warning: "+w)
 	}
 	tw := tabwriter.NewWriter(stdout, 0, 0, 2, ' ', 0)
-	fmt.Fprintln(tw, "A\tB\tkind\tmax bottleneck\twhole Δβ\tclass Δβ\tlargest |Δ| measure")
+	fmt.Fprintln(tw, "A\tB\tkind\tmax bottleneck\twhole Δβ\tclass Δβ\tlargest relative change")
 	for _, s := range c.Stages {
 		kind := s.KindA
 		if s.KindB != s.KindA {
 			kind += "/" + s.KindB
 		}
-		bn := 0.0
-		for _, g := range append([]trace.GroupComparison{s.Whole}, s.Classes...) {
-			for _, v := range g.Bottleneck {
-				bn = max(bn, v)
-			}
-		}
-		var classes []string
-		for _, g := range s.Classes {
-			if slices.ContainsFunc(g.Betti, func(d int) bool { return d != 0 }) {
-				classes = append(classes, fmt.Sprintf("%s %v", g.Label, g.Betti))
-			}
-		}
-		cl := "0"
-		if len(classes) > 0 {
-			cl = strings.Join(classes, "; ")
-		}
-		name, dm := "-", 0.0
-		for _, k := range slices.Sorted(maps.Keys(s.Measures)) {
-			if v := math.Abs(s.Measures[k]); v > dm {
-				name, dm = k, v
-			}
-		}
-		if name != "-" {
-			name = fmt.Sprintf("%s %.4g", name, s.Measures[name])
+		bn := s.MaxBottleneck()
+		cl := s.ClassBetti()
+		name := "-"
+		if k, v, r := s.TopMeasure(); k != "" {
+			name = fmt.Sprintf("%s %+.4g (%+.0f %%)", k, v, 100*r)
 		}
 		fmt.Fprintf(tw, "%d\t%d\t%s\t%.4g\t%v\t%s\t%s\n", s.Index, s.IndexB, kind, bn, s.Whole.Betti, cl, name)
 	}

@@ -22,36 +22,44 @@ func init() {
 }
 
 // runReport reads a trace JSON file (or "-" for stdin) and writes its
-// HTML report to --out atomically, or to stdout without --out.
+// HTML report, or two and writes the page that sets them side by side,
+// to --out atomically, or to stdout without --out.
 func runReport(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer) error {
-	fs := newFlagSet("report", "TRACE.json [--out report.html]", stderr)
+	fs := newFlagSet("report", "TRACE.json [B.json] [--out report.html]", stderr)
 	out := fs.String("out", "", "write the report to this file (atomically) instead of stdout")
 	pos, err := parseFlags(fs, args)
 	if err != nil {
 		return err
 	}
-	if len(pos) != 1 {
+	if len(pos) != 1 && len(pos) != 2 {
 		fs.Usage()
-		return fmt.Errorf("usage: want one trace file, got %d arguments", len(pos))
+		return fmt.Errorf("usage: want one trace file, or two to set side by side, got %d arguments", len(pos))
 	}
 	if *out != "" {
 		if err := prepareOutput(*out); err != nil {
 			return err
 		}
 	}
-	r, closer, name, err := openInput(pos[0], stdin)
-	if err != nil {
-		return err
+	var trs []*trace.Trace
+	for _, arg := range pos {
+		r, closer, name, err := openInput(arg, stdin)
+		if err != nil {
+			return err
+		}
+		tr, err := trace.ReadJSON(r)
+		closer()
+		if err != nil {
+			return fmt.Errorf("%s: %w", name, err)
+		}
+		if len(tr.Stages) == 0 {
+			return fmt.Errorf("%s: the trace has no stages", name)
+		}
+		trs = append(trs, tr)
 	}
-	tr, err := trace.ReadJSON(r)
-	closer()
-	if err != nil {
-		return fmt.Errorf("%s: %w", name, err)
+	write := func(w io.Writer) error { return render.HTML(w, trs[0]) }
+	if len(trs) == 2 {
+		write = func(w io.Writer) error { return render.CompareHTML(w, trs[0], trs[1]) }
 	}
-	if len(tr.Stages) == 0 {
-		return fmt.Errorf("%s: the trace has no stages", name)
-	}
-	write := func(w io.Writer) error { return render.HTML(w, tr) }
 	if *out == "" {
 		return write(stdout)
 	}

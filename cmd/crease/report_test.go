@@ -44,6 +44,14 @@ func TestDemoAndReport(t *testing.T) {
 		t.Errorf("report has %d plots, want 43 (β0, β1, collapse, separation, 18 overlap measures, 21 barcodes)", n)
 	}
 
+	side := filepath.Join(dir, "pages", "side.html")
+	if code := creaseMain(context.Background(), []string{"report", filepath.Join(dir, "arm_wide.json"), filepath.Join(dir, "arm_narrow.json"), "--out", side}, nil, &out, &errb); code != 0 {
+		t.Fatalf("crease report A B: exit %d: %s", code, errb.String())
+	}
+	if b, err := os.ReadFile(side); err != nil || !bytes.Contains(b, []byte(`class="pair"`)) || !bytes.Contains(b, []byte("arm_narrow.onnx")) {
+		t.Errorf("side-by-side report: %v; want two columns naming both models", err)
+	}
+
 	bad := filepath.Join(dir, "bad.json")
 	os.WriteFile(bad, []byte(`{"schema": 1, "stages": [`), 0o644)
 	for _, tc := range []struct {

@@ -32,20 +32,8 @@ func HTML(w io.Writer, t *trace.Trace) error {
 		title += " of " + t.Model.File
 	}
 	fmt.Fprintf(&b, "<title>%s</title>\n", e(title))
-	b.WriteString(`<style>
-body{font-family:sans-serif;margin:2em;max-width:64em;color:#222}
-table{border-collapse:collapse;margin:1em 0}
-th,td{border:1px solid #bbb;padding:0.2em 0.6em;text-align:right}
-th{background:#eee}
-td.l,th.l{text-align:left}
-figure{margin:1.5em 0}
-figcaption{font-size:90%;color:#555}
-svg{max-width:100%;height:auto}
-.note{font-size:90%;color:#555}
-</style>
-</head>
-<body>
-`)
+	b.WriteString(pageStyle)
+
 	fmt.Fprintf(&b, "<h1>%s</h1>\n", e(title))
 	b.WriteString("<table>\n")
 	row := func(k, v string) {
@@ -71,22 +59,7 @@ svg{max-width:100%;height:auto}
 	b.WriteString("</table>\n")
 
 	b.WriteString("<h2>Stages</h2>\n<table>\n")
-	header, rows := t.Table()
-	tableRow := func(cells []string, tag string) {
-		b.WriteString("<tr>")
-		for k, c := range cells {
-			cls := ""
-			if k == 1 { // the kind column reads left-aligned
-				cls = ` class="l"`
-			}
-			fmt.Fprintf(&b, "<%s%s>%s</%s>", tag, cls, e(c), tag)
-		}
-		b.WriteString("</tr>\n")
-	}
-	tableRow(header, "th")
-	for _, r := range rows {
-		tableRow(r, "td")
-	}
+	stageTable(&b, t)
 	b.WriteString("</table>\n<p class=\"note\">Betti numbers are written (β₀,β₁,…); a “?” follows a dimension the sample cannot decide (the number before it is the best guess).</p>\n")
 	if k := t.First(0, trace.AllSimple); k >= 0 {
 		fmt.Fprintf(&b, "<p>Every class is first one component with no holes at stage %d (%s), %s.</p>\n",
@@ -103,11 +76,7 @@ svg{max-width:100%;height:auto}
 
 	b.WriteString("<h2>Betti numbers across stages</h2>\n")
 	for d := 0; d <= t.Settings.MaxDim; d++ {
-		caption := fmt.Sprintf("β%s of each class at every stage.", subscript(d))
-		if hasWhole(t) {
-			caption = fmt.Sprintf("β%s of each class (solid) and of the whole sample (dashed grey) at every stage.", subscript(d))
-		}
-		if err := figure(&b, caption,
+		if err := figure(&b, bettiCaption(t, d),
 			func(w io.Writer) error { return BettiSVG(w, t, d) }); err != nil {
 			return err
 		}
@@ -242,4 +211,53 @@ func hasWhole(t *trace.Trace) bool {
 		}
 	}
 	return false
+}
+
+// pageStyle is the report's inline style sheet, the end of its head and
+// the start of its body.
+const pageStyle = `<style>
+body{font-family:sans-serif;margin:2em;max-width:64em;color:#222}
+table{border-collapse:collapse;margin:1em 0}
+th,td{border:1px solid #bbb;padding:0.2em 0.6em;text-align:right}
+th{background:#eee}
+td.l,th.l{text-align:left}
+figure{margin:1.5em 0}
+figcaption{font-size:90%;color:#555}
+svg{max-width:100%;height:auto}
+.note{font-size:90%;color:#555}
+.pair{display:grid;grid-template-columns:1fr 1fr;gap:1.5em}
+.pair>div{min-width:0}
+.pair table{display:block;overflow-x:auto;font-size:90%}
+</style>
+</head>
+<body>
+`
+
+// stageTable writes the rows of t.Table into b (inside a <table>).
+func stageTable(b *bytes.Buffer, t *trace.Trace) {
+	e := html.EscapeString
+	header, rows := t.Table()
+	tableRow := func(cells []string, tag string) {
+		b.WriteString("<tr>")
+		for k, c := range cells {
+			cls := ""
+			if k == 1 { // the kind column reads left-aligned
+				cls = ` class="l"`
+			}
+			fmt.Fprintf(b, "<%s%s>%s</%s>", tag, cls, e(c), tag)
+		}
+		b.WriteString("</tr>\n")
+	}
+	tableRow(header, "th")
+	for _, r := range rows {
+		tableRow(r, "td")
+	}
+}
+
+// bettiCaption is the caption of BettiSVG(t, d), true to what it draws.
+func bettiCaption(t *trace.Trace, d int) string {
+	if hasWhole(t) {
+		return fmt.Sprintf("β%s of each class (solid) and of the whole sample (dashed grey) at every stage.", subscript(d))
+	}
+	return fmt.Sprintf("β%s of each class at every stage.", subscript(d))
 }

@@ -223,3 +223,32 @@ func TestPalette(t *testing.T) {
 		}
 	}
 }
+
+// TestCompareHTML sets a trace beside itself: the page is self-contained,
+// holds every plot twice, and says the traces do not diverge.
+func TestCompareHTML(t *testing.T) {
+	tr := renderTrace(t)
+	var b bytes.Buffer
+	if err := render.CompareHTML(&b, tr, tr); err != nil {
+		t.Fatal(err)
+	}
+	page := b.String()
+	var one bytes.Buffer
+	if err := render.HTML(&one, tr); err != nil {
+		t.Fatal(err)
+	}
+	barcodes := len(tr.Stages) // the single report's barcodes are not paired
+	if got, want := strings.Count(page, "<svg"), 2*(strings.Count(one.String(), "<svg")-barcodes-1); got != want {
+		t.Errorf("%d plots side by side, want %d (every plot of the report but the gluing plot and the barcodes, twice)", got, want)
+	}
+	for _, want := range []string{"The traces do not diverge.", `class="pair"`, "certifies nothing"} {
+		if !strings.Contains(page, want) {
+			t.Errorf("page lacks %q", want)
+		}
+	}
+	for _, bad := range []string{"<script", "src=", "href=", "url("} {
+		if strings.Contains(page, bad) {
+			t.Errorf("page contains %q", bad)
+		}
+	}
+}
