@@ -6,8 +6,10 @@ package trace
 
 import (
 	"context"
+	"encoding/json"
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -89,16 +91,16 @@ const (
 type AlikeSettings struct {
 	// Replicates is the number of subsamples; zero means
 	// DefaultReplicates, at least 2.
-	Replicates int
+	Replicates int `json:"replicates"`
 	// Keep is the share of each class a subsample keeps, in (0, 1); zero
 	// means DefaultKeep.
-	Keep float64
+	Keep float64 `json:"keep"`
 	// Z is the number of spreads a difference must exceed; zero means
 	// DefaultZ.
-	Z float64
+	Z float64 `json:"z"`
 	// CKAFloor is the least 1 − CKA that counts; zero means
 	// DefaultCKAFloor.
-	CKAFloor float64
+	CKAFloor float64 `json:"cka_floor"`
 }
 
 func (s *AlikeSettings) resolve() (AlikeSettings, error) {
@@ -645,4 +647,85 @@ func scaledBars(g *Group, d int) []homology.Bar {
 		b[i].Death /= g.Scale
 	}
 	return b
+}
+
+// AlikeSchemaVersion is the version of the JSON that Alikeness.WriteJSON
+// writes.
+const AlikeSchemaVersion = 1
+
+// WriteJSON writes the comparison as indented JSON: "schema", "models"
+// (A's and B's files and hashes), "settings" (the comparison's) and
+// "trace_settings" (both traces'), "verdict" ("alike" or "different"),
+// "reason", "first" (the first difference, or null), "unmatched",
+// "pairs" (per matched stage pair: "a", "b", "kind", "same_pattern",
+// "shared_glued" and "quantities", each with "name", "class", "a", "b",
+// "delta", "spread", "bound", "differs" and "note") and "cka" (A's
+// stages × B's). Numbers that are undefined (NaN) are null.
+func (a *Alikeness) WriteJSON(w io.Writer) error {
+	num := func(x float64) *float64 {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return nil
+		}
+		return &x
+	}
+	type quantity struct {
+		Stage   string   `json:"stage"`
+		Name    string   `json:"name"`
+		Class   string   `json:"class,omitempty"`
+		A       *float64 `json:"a"`
+		B       *float64 `json:"b"`
+		Delta   *float64 `json:"delta"`
+		Spread  *float64 `json:"spread"`
+		Bound   *float64 `json:"bound"`
+		Differs bool     `json:"differs"`
+		Note    string   `json:"note,omitempty"`
+	}
+	conv := func(q Quantity) quantity {
+		return quantity{q.Stage, q.Name, q.Class, num(q.A), num(q.B), num(q.Delta), num(q.Spread), num(q.Bound), q.Differs, q.Note}
+	}
+	type pair struct {
+		A           int        `json:"a"`
+		B           int        `json:"b"`
+		Kind        StageKind  `json:"kind"`
+		SamePattern *float64   `json:"same_pattern"`
+		SharedGlued *float64   `json:"shared_glued"`
+		Quantities  []quantity `json:"quantities"`
+	}
+	out := struct {
+		Schema        int           `json:"schema"`
+		Models        [2]ModelInfo  `json:"models"`
+		Settings      AlikeSettings `json:"settings"`
+		TraceSettings [2]Settings   `json:"trace_settings"`
+		Verdict       string        `json:"verdict"`
+		Reason        string        `json:"reason"`
+		First         *quantity     `json:"first"`
+		Unmatched     []string      `json:"unmatched"`
+		Pairs         []pair        `json:"pairs"`
+		CKA           [][]*float64  `json:"cka"`
+	}{Schema: AlikeSchemaVersion, Models: [2]ModelInfo{a.A.Model, a.B.Model}, Settings: a.Settings,
+		TraceSettings: [2]Settings{a.A.Settings, a.B.Settings}, Verdict: "alike", Reason: a.Reason(), Unmatched: a.Unmatched}
+	if out.Unmatched == nil {
+		out.Unmatched = []string{}
+	}
+	if a.First != nil {
+		q := conv(*a.First)
+		out.First, out.Verdict = &q, "different"
+	}
+	for _, p := range a.Pairs {
+		pp := pair{A: p.A, B: p.B, Kind: p.Kind, SamePattern: num(p.SamePattern), SharedGlued: num(p.GluedOverlap), Quantities: []quantity{}}
+		for _, q := range p.Quantities {
+			pp.Quantities = append(pp.Quantities, conv(q))
+		}
+		out.Pairs = append(out.Pairs, pp)
+	}
+	for _, row := range a.CKA {
+		r := make([]*float64, len(row))
+		for j, v := range row {
+			r[j] = num(v)
+		}
+		out.CKA = append(out.CKA, r)
+	}
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", " ")
+	return enc.Encode(out)
 }

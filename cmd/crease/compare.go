@@ -48,6 +48,7 @@ func runCompare(ctx context.Context, args []string, stdin io.Reader, stdout, std
 	z := fs.Float64("z", trace.DefaultZ, "models: spreads a difference must exceed to count")
 	ckaFloor := fs.Float64("cka-floor", trace.DefaultCKAFloor, "models: least 1 − CKA that counts")
 	ckaMatrix := fs.Bool("cka-matrix", false, "models: also print linear CKA between every stage of A and every stage of B")
+	out := fs.String("out", "", "models: write the comparison as JSON to this file (atomically)")
 	pos, err := parseFlags(fs, args)
 	if err != nil {
 		return err
@@ -72,6 +73,11 @@ func runCompare(ctx context.Context, args []string, stdin io.Reader, stdout, std
 		if *capN == 0 {
 			return fmt.Errorf("--per-class-cap 0: want a positive cap or a negative value for no cap")
 		}
+		if *out != "" {
+			if err := prepareOutput(*out); err != nil {
+				return err
+			}
+		}
 		set := &trace.Settings{MaxDim: *maxDim, Cap: *capN, Seed: *seed, Fuse: *fuse, SkipProbe: *skipProbe, Workers: *workers}
 		if *classOrder != "" {
 			set.ClassOrder = strings.Split(*classOrder, ",")
@@ -93,12 +99,17 @@ func runCompare(ctx context.Context, args []string, stdin io.Reader, stdout, std
 				return err
 			}
 		}
+		if *out != "" {
+			if err := writeFileAtomic(ctx, *out, c.WriteJSON); err != nil {
+				return err
+			}
+		}
 		if !c.Alike() {
 			return checkFailed("the models differ: %s", c.Reason())
 		}
 		return nil
 	}
-	for _, f := range []string{"labels", "header", "top-dim", "per-class-cap", "seed", "class-order", "skip-probe", "fuse", "workers", "replicates", "keep", "z", "cka-floor", "cka-matrix"} {
+	for _, f := range []string{"labels", "header", "top-dim", "per-class-cap", "seed", "class-order", "skip-probe", "fuse", "workers", "replicates", "keep", "z", "cka-floor", "cka-matrix", "out"} {
 		if flagSet(fs, f) {
 			return fmt.Errorf("--%s applies to models (A.onnx B.onnx DATA), not to two traces", f)
 		}
@@ -223,6 +234,36 @@ func writeAlikeness(w io.Writer, c *trace.Alikeness) error {
 	}
 	if len(c.Unmatched) > 0 {
 		fmt.Fprintf(w, "unmatched stages: %s\n", strings.Join(c.Unmatched, ", "))
+	}
+	// Every difference that counts, with its bound and spread, the
+	// first maxListed of them.
+	const maxListed = 20
+	var diffs []trace.Quantity
+	for _, p := range c.Pairs {
+		for _, q := range p.Quantities {
+			if q.Differs {
+				diffs = append(diffs, q)
+			}
+		}
+	}
+	if len(diffs) > 0 {
+		fmt.Fprintf(w, "differences (%d):\n", len(diffs))
+		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+		fmt.Fprintln(tw, "  stage\tclass\tquantity\tA\tB\tdifference\tbound\tspread")
+		for i, q := range diffs {
+			if i == maxListed {
+				fmt.Fprintf(tw, "  … and %d more\n", len(diffs)-maxListed)
+				break
+			}
+			class := q.Class
+			if class == "" {
+				class = "-"
+			}
+			fmt.Fprintf(tw, "  %s\t%s\t%s\t%.4g\t%.4g\t%.3g\t%.3g\t%.3g\n", q.Stage, class, q.Name, q.A, q.B, q.Delta, q.Bound, q.Spread)
+		}
+		if err := tw.Flush(); err != nil {
+			return err
+		}
 	}
 	verdict := "alike"
 	if !c.Alike() {

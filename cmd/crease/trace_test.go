@@ -7,8 +7,10 @@ package main
 import (
 	"bytes"
 	"context"
+	"encoding/json"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -187,6 +189,7 @@ func TestCompareModelsCommand(t *testing.T) {
 		{"float16", []string{dir + "base.onnx", dir + "fp16.onnx", dir + "rings3.csv", "--replicates", "4"}, 0, "verdict: alike"},
 		{"pruned", []string{dir + "base.onnx", dir + "pruned.onnx", dir + "rings3.csv", "--replicates", "4"}, 1, "verdict: different; stage 1 / 1"},
 		{"CKA matrix", []string{dir + "base.onnx", dir + "narrow.onnx", dir + "rings3.csv", "--replicates", "3", "--cka-matrix"}, 1, "linear CKA, stage of A (rows) × stage of B (columns):"},
+		{"JSON out", []string{dir + "base.onnx", dir + "narrow.onnx", dir + "rings3.csv", "--replicates", "3", "--out", filepath.Join(t.TempDir(), "c.json")}, 1, "verdict: different"},
 		{"tolerance on models", []string{dir + "base.onnx", dir + "fp16.onnx", dir + "rings3.csv", "--tol", "1"}, 2, ""},
 		{"wrong width", []string{dir + "base.onnx", digitsModel, dir + "rings3.csv"}, 2, ""},
 		{"missing data", []string{dir + "base.onnx", dir + "fp16.onnx", dir + "none.csv"}, 2, ""},
@@ -199,6 +202,20 @@ func TestCompareModelsCommand(t *testing.T) {
 			}
 			if !strings.Contains(stdout.String(), tc.want) {
 				t.Errorf("stdout %q lacks %q", stdout.String(), tc.want)
+			}
+			if i := slices.Index(tc.args, "--out"); i >= 0 {
+				b, err := os.ReadFile(tc.args[i+1])
+				var got struct {
+					Verdict string
+					Pairs   []struct{ Quantities []struct{ Name string } }
+					CKA     [][]*float64
+				}
+				if err == nil {
+					err = json.Unmarshal(b, &got)
+				}
+				if err != nil || got.Verdict != "different" || len(got.Pairs) != 6 || len(got.CKA) != 6 {
+					t.Errorf("comparison JSON: %v; verdict %q, %d pairs, %d CKA rows; want different, 6, 6", err, got.Verdict, len(got.Pairs), len(got.CKA))
+				}
 			}
 		})
 	}
