@@ -114,7 +114,7 @@ func HTML(w io.Writer, t *trace.Trace) error {
 	for i := range t.Stages {
 		s := &t.Stages[i]
 		if len(s.Whole.Bars) > 0 {
-			if err := figure(&b, fmt.Sprintf("Stage %d (%s), whole sample.", s.Index, s.Kind),
+			if err := figure(&b, barcodeCaption(t, s, "whole sample"),
 				func(w io.Writer) error { return BarcodeSVG(w, t, i, "") }); err != nil {
 				return err
 			}
@@ -125,7 +125,7 @@ func HTML(w io.Writer, t *trace.Trace) error {
 				continue
 			}
 			name := s.Classes[c].Label
-			if err := figure(&b, fmt.Sprintf("Stage %d (%s), class %s.", s.Index, s.Kind, name),
+			if err := figure(&b, barcodeCaption(t, s, "class "+name),
 				func(w io.Writer) error { return BarcodeSVG(w, t, i, name) }); err != nil {
 				return err
 			}
@@ -260,4 +260,17 @@ func bettiCaption(t *trace.Trace, d int) string {
 		return fmt.Sprintf("β%s of each class (solid) and of the whole sample (dashed grey) at every stage.", subscript(d))
 	}
 	return fmt.Sprintf("β%s of each class at every stage.", subscript(d))
+}
+
+// barcodeCaption is the caption of a barcode, true to what BarcodeSVG
+// draws.
+func barcodeCaption(t *trace.Trace, s *trace.Stage, who string) string {
+	line := "the dashed line marks the scale the Betti numbers were read at"
+	switch t.Settings.Rule {
+	case trace.ScaleRatio:
+		line = "the dashed line marks the sampling scale (the largest distance from a point to its k-th neighbour); the ratio rule counts bars by their death/birth ratio, not by where they cross it"
+	case trace.ScalePersistence:
+		line = "no line: the persistence rule counts bars by their length"
+	}
+	return fmt.Sprintf("Stage %d (%s), %s: one bar per class of H₀, H₁, … from birth to death (the longest ones; an arrow marks a bar alive at the threshold); %s.", s.Index, s.Kind, who, line)
 }

@@ -475,7 +475,7 @@ func BarcodeSVG(w io.Writer, t *trace.Trace, i int, class string) error {
 		l.Color = grey
 		l.Dashes = []vg.Length{vg.Points(3), vg.Points(3)}
 		p.Add(l)
-		p.Legend.Add(fmt.Sprintf("ε = %.3g (Betti %s)", g.Scale, g.BettiString()), l)
+		p.Legend.Add(scaleLegend(t.Settings.Rule, g), l)
 		p.Legend.Top = true
 	}
 	h := plotHeight
@@ -628,3 +628,12 @@ func Palette() [][3]float64 {
 
 // Shapes returns the number of distinct class marker shapes.
 func Shapes() int { return len(shapes) }
+
+// scaleLegend names the dashed line of a barcode: the scale the rule
+// read the Betti numbers at, and the reading.
+func scaleLegend(rule trace.ScaleRule, g *trace.Group) string {
+	if rule == trace.ScaleRatio {
+		return fmt.Sprintf("sampling scale %.3g; read %s", g.Scale, g.BettiString())
+	}
+	return fmt.Sprintf("ε = %.3g; read %s", g.Scale, g.BettiString())
+}
