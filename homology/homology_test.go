@@ -7,6 +7,7 @@ package homology
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -459,5 +460,31 @@ func TestLandmarks(t *testing.T) {
 	a, b := engRips(t, pts, nil), engRips(t, sub, nil)
 	if bd := Bottleneck(a.Bars[1], b.Bars[1]); bd > 2*r {
 		t.Errorf("H1 bottleneck %v > 2r = %v", bd, 2*r)
+	}
+}
+
+// TestWorkersBound checks that a worker bound, set in the settings or by
+// a caller's budget in the context, does not change the barcode (the
+// engine is deterministic whatever its parallelism).
+func TestWorkersBound(t *testing.T) {
+	pts := mat.NewDense(300, 3, nil)
+	r := rand.New(rand.NewPCG(5, 6))
+	for i := range 300 {
+		for j := range 3 {
+			pts.Set(i, j, r.NormFloat64())
+		}
+	}
+	want, err := Rips(context.Background(), pts, &Settings{MaxDim: 2, Threshold: 1.2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, w := range []int{1, 2, 7} {
+		got, err := Rips(context.Background(), pts, &Settings{MaxDim: 2, Threshold: 1.2, Workers: w})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if fmt.Sprint(got.Bars) != fmt.Sprint(want.Bars) {
+			t.Errorf("Workers %d: the barcode differs from the default's", w)
+		}
 	}
 }

@@ -9,11 +9,12 @@ import (
 	"context"
 	"fmt"
 	"math"
-	"runtime"
 	"slices"
 	"sync"
 
 	"gonum.org/v1/gonum/mat"
+
+	"crease.dev/crease/internal/budget"
 )
 
 // cloud is a validated point cloud stored row-major.
@@ -81,11 +82,11 @@ func (c *cloud) checkFinite() error {
 	return nil
 }
 
-// parallelRows runs f(i) for i in 0..n−1 on up to GOMAXPROCS goroutines,
+// parallelRows runs f(i) for i in 0..n−1 on up to budget.Workers(ctx) goroutines,
 // rows interleaved so that triangular work is balanced. It stops early
 // and returns ctx.Err() when ctx is cancelled.
 func parallelRows(ctx context.Context, n int, f func(i int)) error {
-	w := min(runtime.GOMAXPROCS(0), max(1, n/64))
+	w := min(budget.Workers(ctx), max(1, n/64))
 	var wg sync.WaitGroup
 	errs := make([]error, w)
 	for g := 0; g < w; g++ {

@@ -8,12 +8,13 @@ import (
 	"context"
 	"fmt"
 	"math"
-	"runtime"
 	"sync"
 	"sync/atomic"
 	"unsafe"
 
 	"gonum.org/v1/gonum/mat"
+
+	"crease.dev/crease/internal/budget"
 )
 
 // PointEdges lists the edges of the Vietoris–Rips complex of a point
@@ -36,6 +37,7 @@ import (
 // *MemoryError when the list, counted before it is allocated, would
 // exceed set.MaxBytes.
 func PointEdges(ctx context.Context, points mat.Matrix, set *Settings) (*Sparse, error) {
+	ctx = withWorkers(ctx, set)
 	c, r, err := prepareMatrix(points, set)
 	if err != nil {
 		return nil, err
@@ -164,7 +166,7 @@ func cloudEdges(ctx context.Context, c *cloud, r resolved) (*Sparse, error) {
 		return nil, err
 	}
 	n := c.n
-	workers := min(runtime.GOMAXPROCS(0), max(1, n/64))
+	workers := min(budget.Workers(ctx), max(1, n/64))
 	// Blocks of up to 16 rows and about 2²⁰ coordinates, so that a
 	// cancellation is seen within milliseconds.
 	block := max(1, min(16, (1<<20)/(n*c.dim)))

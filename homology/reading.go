@@ -188,6 +188,8 @@ type ReadSettings struct {
 	// MaxBytes bounds the memory of the barcode computation (see
 	// Settings.MaxBytes); zero means DefaultMaxBytes.
 	MaxBytes int64
+	// Workers bounds the goroutines (see Settings.Workers).
+	Workers int
 	// Progress, if not nil, receives the barcode computation's progress.
 	Progress func(Progress)
 }
@@ -299,6 +301,7 @@ func Read(ctx context.Context, points mat.Matrix, set *ReadSettings) (*Reading, 
 		return nil, err
 	}
 	hs := r.homologySettings()
+	ctx = withWorkers(ctx, hs)
 	if _, err := resolve(hs); err != nil {
 		return nil, err
 	}
@@ -320,7 +323,7 @@ func Read(ctx context.Context, points mat.Matrix, set *ReadSettings) (*Reading, 
 }
 
 func (r readResolved) homologySettings() *Settings {
-	return &Settings{MaxDim: r.MaxDim, Field: r.Field, MaxBytes: r.MaxBytes, Progress: r.Progress}
+	return &Settings{MaxDim: r.MaxDim, Field: r.Field, MaxBytes: r.MaxBytes, Workers: r.Workers, Progress: r.Progress}
 }
 
 // point returns the reading of a cloud whose points coincide.

@@ -9,9 +9,10 @@ import (
 	"fmt"
 	"math"
 	"math/bits"
-	"runtime"
 	"slices"
 	"sync"
+
+	"crease.dev/crease/internal/budget"
 )
 
 // filtrationOrder sorts simplices of one dimension in filtration order:
@@ -445,7 +446,7 @@ func (e *engine) assemble(prev []simplex, pm *pivotMap, d int, keep bool) (cols,
 // skipping it is clearing.
 // The checks are independent and read-only, so they run on all cores.
 func (e *engine) dropApparent(cands []simplex, k int) ([]simplex, error) {
-	workers := min(runtime.GOMAXPROCS(0), max(1, len(cands)/4096))
+	workers := min(budget.Workers(e.ctx), max(1, len(cands)/4096))
 	keep := make([]bool, len(cands))
 	errs := make([]error, workers)
 	var wg sync.WaitGroup

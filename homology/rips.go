@@ -20,6 +20,7 @@ import (
 // (*MemoryError), index overflow (ErrOverflow) and ctx.Err() on
 // cancellation.
 func Rips(ctx context.Context, points mat.Matrix, set *Settings) (*Barcode, error) {
+	ctx = withWorkers(ctx, set)
 	c, r, err := prepareMatrix(points, set)
 	if err != nil {
 		return nil, err
@@ -39,6 +40,7 @@ func prepareMatrix(points mat.Matrix, set *Settings) (*cloud, resolved, error) {
 // RipsPoints is Rips for a cloud given as rows; rows of different
 // lengths give ErrRagged.
 func RipsPoints(ctx context.Context, points [][]float64, set *Settings) (*Barcode, error) {
+	ctx = withWorkers(ctx, set)
 	r, err := resolve(set)
 	if err != nil {
 		return nil, err
@@ -53,6 +55,7 @@ func RipsPoints(ctx context.Context, points [][]float64, set *Settings) (*Barcod
 // PointDistances returns the distances of the cloud under the metric of
 // set (nil means Euclidean), in compressed lower-triangular storage.
 func PointDistances(ctx context.Context, points mat.Matrix, set *Settings) (*LowerTriangular, error) {
+	ctx = withWorkers(ctx, set)
 	c, r, err := prepareMatrix(points, set)
 	if err != nil {
 		return nil, err
@@ -109,6 +112,7 @@ func ripsCloud(ctx context.Context, c *cloud, r resolved) (*Barcode, error) {
 // through Dist). Pairs at distance +Inf never enter the complex.
 // set.Metric and set.K are ignored.
 func RipsDistances(ctx context.Context, d Distances, set *Settings) (*Barcode, error) {
+	ctx = withWorkers(ctx, set)
 	r, err := resolve(set)
 	if err != nil {
 		return nil, err

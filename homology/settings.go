@@ -5,9 +5,12 @@
 package homology
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
+
+	"crease.dev/crease/internal/budget"
 )
 
 // Metric selects how distances between the points of a cloud are computed.
@@ -82,6 +85,10 @@ type Settings struct {
 	// MaxBytes bounds the memory the computation may allocate. Zero
 	// means DefaultMaxBytes. Exceeding it gives a *MemoryError.
 	MaxBytes int64
+	// Workers bounds the goroutines of the computation; zero means the
+	// budget of the context (set by a caller such as a trace, so that
+	// pools do not nest) or, without one, GOMAXPROCS.
+	Workers int
 	// Progress, if not nil, is called from the computing goroutine at
 	// the start of each phase and then about every 100 ms.
 	Progress func(Progress)
@@ -224,4 +231,12 @@ func isPrime(p int) bool {
 		}
 	}
 	return true
+}
+
+// withWorkers returns ctx with set's worker bound, if it has one.
+func withWorkers(ctx context.Context, set *Settings) context.Context {
+	if set == nil || set.Workers <= 0 {
+		return ctx
+	}
+	return budget.WithWorkers(ctx, set.Workers)
 }

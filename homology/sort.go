@@ -8,9 +8,10 @@ import (
 	"context"
 	"math"
 	"math/bits"
-	"runtime"
 	"slices"
 	"sync"
+
+	"crease.dev/crease/internal/budget"
 )
 
 // sortChunk is the number of simplices sorted between context checks.
@@ -82,7 +83,7 @@ func parallelJobs(ctx context.Context, jobs int, job func(j int)) error {
 		firstErr error
 		wg       sync.WaitGroup
 	)
-	for range min(runtime.GOMAXPROCS(0), jobs) {
+	for range min(budget.Workers(ctx), jobs) {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()

@@ -20,6 +20,7 @@ import (
 	"gonum.org/v1/gonum/mat"
 
 	"crease.dev/crease/homology"
+	"crease.dev/crease/internal/budget"
 	"crease.dev/crease/onnxload"
 )
 
@@ -228,11 +229,15 @@ func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings)
 	}
 	// One memory budget for the run, shared by the tasks that run at
 	// once.
-	budget := rs.MaxBytes
-	if budget <= 0 {
-		budget = homology.DefaultMaxBytes
+	memBudget := rs.MaxBytes
+	if memBudget <= 0 {
+		memBudget = homology.DefaultMaxBytes
 	}
-	taskBytes := max(budget/int64(workers), 1)
+	taskBytes := max(memBudget/int64(workers), 1)
+	// One worker budget too: the tasks that run at once share the
+	// workers, and each computation inside a task (homology, k-NN,
+	// gluing) uses only its share, so no pool nests in another.
+	share := max(1, workers/max(len(tasks), 1))
 	var (
 		mu        sync.Mutex
 		done      int
@@ -249,6 +254,7 @@ func Run(ctx context.Context, stages []onnxload.Stage, s *Sample, set *Settings)
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
+			ctx := budget.WithWorkers(ctx, share)
 			for tk := range next {
 				if ctx.Err() != nil {
 					continue

@@ -387,8 +387,11 @@ type Settings struct {
 	// SkipWhole leaves out the whole sample's homology (the costliest
 	// part); the whole sample's Betti and Bars are then empty arrays.
 	SkipWhole bool `json:"skip_whole"`
-	// Workers bounds the parallel tasks; zero means GOMAXPROCS. Not
-	// recorded in the trace (it does not change the result).
+	// Workers is the run's worker budget: the tasks that run at once,
+	// each computation inside a task using its share (internal/budget),
+	// so that no pool of workers nests in another; zero means
+	// GOMAXPROCS. Not recorded in the trace (it does not change the
+	// result).
 	Workers int `json:"-"`
 	// MaxBytes is the memory budget of the run's homology, shared by the
 	// tasks that run at once (each of Workers tasks may use MaxBytes /

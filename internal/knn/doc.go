@@ -32,7 +32,8 @@
 //
 // # Concurrency
 //
-// [Search] and [Pairs] use all cores (GOMAXPROCS goroutines), stop early
+// [Search] and [Pairs] use the context's worker budget (internal/budget;
+// GOMAXPROCS goroutines without one), stop early
 // when the context is cancelled and return the context's error.
 //
 // # Errors

@@ -9,7 +9,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"runtime"
 	"slices"
 	"sort"
 	"sync"
@@ -18,6 +17,8 @@ import (
 	"gonum.org/v1/gonum/blas"
 	"gonum.org/v1/gonum/blas/blas64"
 	"gonum.org/v1/gonum/mat"
+
+	"crease.dev/crease/internal/budget"
 )
 
 // Block sizes of the distance computation: rowBlock rows of the sample are
@@ -179,7 +180,7 @@ func (c *Cloud) gram(buf []float64, i0, i1, j0, j1 int) blas64.General {
 // parallel runs work(block) for block = 0..nblocks−1 on all cores, stopping
 // at the first error or cancellation.
 func parallel(ctx context.Context, nblocks int, progress func(done, total int), work func(w, block int) error) error {
-	workers := min(runtime.GOMAXPROCS(0), nblocks)
+	workers := min(budget.Workers(ctx), nblocks)
 	var (
 		pmu     sync.Mutex
 		done    int
@@ -390,7 +391,7 @@ func (c *Cloud) searchPairs(ctx context.Context, k int, g *Graph) error {
 	for i, v := range c.norm {
 		slk[i] = 2 * c.slack * (v + maxNorm)
 	}
-	workers := runtime.GOMAXPROCS(0)
+	workers := budget.Workers(ctx)
 	bufs := make([][]float64, workers)
 	states := make([][]rowState, workers)
 	nb := (c.n + rowBlock - 1) / rowBlock
@@ -473,7 +474,7 @@ func (c *Cloud) searchRows(ctx context.Context, k int, g *Graph) error {
 	for _, v := range c.norm {
 		maxNorm = max(maxNorm, v)
 	}
-	workers := runtime.GOMAXPROCS(0)
+	workers := budget.Workers(ctx)
 	bufs := make([][]float64, workers)
 	states := make([][]rowState, workers)
 	nb := (c.n + rowBlock - 1) / rowBlock

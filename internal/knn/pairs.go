@@ -8,9 +8,10 @@ import (
 	"context"
 	"fmt"
 	"math"
-	"runtime"
 
 	"gonum.org/v1/gonum/mat"
+
+	"crease.dev/crease/internal/budget"
 )
 
 // Pair is two points i < j at Euclidean distance D.
@@ -45,7 +46,7 @@ func (c *Cloud) Pairs(ctx context.Context, r float64, visit func(batch []Pair) e
 		return &Error{Row: -1, Col: -1, Reason: fmt.Sprintf("radius %v is not a finite non-negative number", r)}
 	}
 	r2 := r * r
-	workers := runtime.GOMAXPROCS(0)
+	workers := budget.Workers(ctx)
 	bufs := make([][]float64, workers)
 	batches := make([][]Pair, workers)
 	nb := (c.n + rowBlock - 1) / rowBlock
