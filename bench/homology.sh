@@ -27,6 +27,15 @@
 # The bar counts per dimension (bars longer than 1e-9) of crease and GUDHI
 # are compared and a mismatch is flagged in the last column.
 #
+#   ripser     Ripser (the reference implementation of U. Bauer, "Ripser:
+#              efficient computation of Vietoris–Rips persistence
+#              barcodes", J. Appl. Comput. Topol. 5, 2021) when RIPSER names
+#              its binary: `ripser --format point-cloud --dim D
+#              [--threshold T] CLOUD`. Bring its source with the search
+#              tool's fetch (github:Ripser/ripser) and build it outside this
+#              repository (c++ -std=c++11 -O3 -D NDEBUG ripser.cpp -o
+#              ripser); none of its code is kept here.
+#
 # Usage: bench/homology.sh [CASE-REGEXP]
 # Environment: RUNS (default 3), GUDHI_TIMEOUT (default 600),
 # GUDHI_MEM_GB (default 8), ITER (collapse_edges iterations, default 1),
@@ -43,6 +52,11 @@ GUDHI_MEM_GB=${GUDHI_MEM_GB:-8}
 ITER=${ITER:-1}
 SLOW=${SLOW:-60}
 MODES=${MODES-rips ec}
+RIPSER=${RIPSER:-}
+if [ -n "$RIPSER" ]; then
+	[ -x "$RIPSER" ] || { echo "RIPSER=$RIPSER is not an executable" >&2; exit 1; }
+	MODES="${MODES:+$MODES }ripser"
+fi
 CREASE_FLAGS=${CREASE_FLAGS:-}
 FILTER=${1:-.}
 PY=/usr/bin/python3
@@ -159,7 +173,10 @@ echo "# $(go version | cut -d' ' -f3), gudhi $("$PY" -c 'import gudhi; print(gud
 echo
 head="| case | crease"
 rule="|---|---"
-for mode in $MODES; do head="$head | gudhi-$mode"; rule="$rule|---"; done
+for mode in $MODES; do
+	if [ "$mode" = ripser ]; then head="$head | ripser"; else head="$head | gudhi-$mode"; fi
+	rule="$rule|---"
+done
 for mode in $MODES; do head="$head | crease/$mode"; rule="$rule|---"; done
 echo "$head | bars (crease${MODES:+; ${MODES// /; }}) |"
 echo "$rule|---|"
@@ -183,7 +200,17 @@ for c in "${cases[@]}"; do
 	for mode in $MODES; do
 		for _ in $(seq "$RUNS"); do
 			rm -f "$tmp/counts"
-			timed "$key.$mode" bash -c "ulimit -v $((GUDHI_MEM_GB * 1024 * 1024)); exec timeout -s KILL $GUDHI_TIMEOUT $PY $tmp/gudhi_bars.py $DATA/$file $maxdim $thr $mode $ITER $tmp/counts"
+			if [ "$mode" = ripser ]; then
+				targ=""
+				if [ "$thr" != 0 ]; then targ="--threshold $thr"; fi
+				timed "$key.$mode" bash -c "ulimit -v $((GUDHI_MEM_GB * 1024 * 1024)); exec timeout -s KILL $GUDHI_TIMEOUT $RIPSER --format point-cloud --dim $maxdim $targ $DATA/$file"
+				# bars longer than 1e-9 (or infinite) per dimension
+				awk -v m="$maxdim" '/persistence intervals in dim/ {d=$NF; sub(":","",d); next}
+					/^ \[/ {s=$0; gsub(/[\[\) ]/,"",s); split(s,p,","); if (p[2]=="" || p[2]-p[1]>1e-9) n[d]++}
+					END {s=""; for(k=0;k<=m;k++) s=s (k?" ":"") (n[k]+0); print s}' "$tmp/out" >"$tmp/counts"
+			else
+				timed "$key.$mode" bash -c "ulimit -v $((GUDHI_MEM_GB * 1024 * 1024)); exec timeout -s KILL $GUDHI_TIMEOUT $PY $tmp/gudhi_bars.py $DATA/$file $maxdim $thr $mode $ITER $tmp/counts"
+			fi
 			if [ "$(tail -1 "$tmp/$key.$mode.runs" | awk '{print $4}')" != ok ] || slow "$key.$mode"; then break; fi
 		done
 		read -r gw gc gr gs <<<"$(summary "$key.$mode")"
