@@ -264,3 +264,33 @@ func ExampleLinearCKA() {
 	fmt.Printf("rotated %.3f, one coordinate %.3f\n", same, part)
 	// Output: rotated 1.000, one coordinate 0.182
 }
+
+// ExampleCompareFiles asks whether a model and its float16-rounded copy
+// (testdata/compare, made by testdata/gen/compare_models.py) reshape a
+// sample alike, and then the same of a copy with half its hidden
+// weights pruned.
+func ExampleCompareFiles() {
+	f, err := os.Open("../testdata/compare/rings3.csv")
+	if err != nil {
+		log.Fatal(err)
+	}
+	s, err := trace.ReadCSV(f, "rings3.csv", nil)
+	f.Close()
+	if err != nil {
+		log.Fatal(err)
+	}
+	for _, copy := range []string{"fp16", "pruned"} {
+		c, err := trace.CompareFiles(context.Background(), "../testdata/compare/base.onnx", "../testdata/compare/"+copy+".onnx", s, nil, &trace.AlikeSettings{Replicates: 4})
+		if err != nil {
+			log.Fatal(err)
+		}
+		if c.Alike() {
+			fmt.Printf("%s: alike\n", copy)
+		} else {
+			fmt.Printf("%s: differs first at %s in %s\n", copy, c.First.Stage, c.First.Name)
+		}
+	}
+	// Output:
+	// fp16: alike
+	// pruned: differs first at stage 1 / 1 in cka
+}
