@@ -253,6 +253,26 @@ type Timing struct {
 	Stages []time.Duration `json:"stages"`
 }
 
+// String describes the timing in one line: the wall time, the forward
+// pass, and each part's share of the worker time (homology, collapse
+// measures, class-overlap measures), with the whole trace's wall time
+// relative to its homology time.
+func (t *Timing) String() string {
+	work := t.Homology + t.Relu + t.Overlap
+	share := func(d time.Duration) float64 {
+		if work == 0 {
+			return 0
+		}
+		return 100 * float64(d) / float64(work)
+	}
+	ratio := "-"
+	if t.Homology > 0 {
+		ratio = fmt.Sprintf("%.2f×", float64(work)/float64(t.Homology))
+	}
+	return fmt.Sprintf("total %v, forward %v; of %v worker time: homology %.0f %%, collapse measures %.0f %%, overlap measures %.0f %%; all parts %s the homology",
+		t.Total.Round(time.Millisecond), t.Forward.Round(time.Microsecond), work.Round(time.Millisecond), share(t.Homology), share(t.Relu), share(t.Overlap), ratio)
+}
+
 // HomologyShare returns the fraction of worker time spent in homology.
 func (t *Timing) HomologyShare() float64 {
 	s := t.Homology + t.Relu + t.Overlap

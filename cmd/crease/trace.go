@@ -139,6 +139,9 @@ func runTrace(ctx context.Context, args []string, stdin io.Reader, stdout, stder
 		return err
 	}
 	fmt.Fprintf(stdout, "# separation: %s\n", tr.Separation())
+	if tr.Timing != nil {
+		fmt.Fprintf(stdout, "# timing: %s\n", tr.Timing)
+	}
 	for _, note := range tr.Notes {
 		fmt.Fprintln(stdout, "# note: "+note)
 		fmt.Fprintln(stderr, "crease trace: note: "+note)

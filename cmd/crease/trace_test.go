@@ -333,3 +333,17 @@ func TestTraceOutputPaths(t *testing.T) {
 		})
 	}
 }
+
+// TestTraceTimingLine checks that --timing prints the shares of the
+// parts of a trace.
+func TestTraceTimingLine(t *testing.T) {
+	var stdout, stderr bytes.Buffer
+	if code := creaseMain(context.Background(), []string{"trace", digitsModel, digitsSample, "--per-class-cap", "10", "--skip-probe", "--timing"}, nil, &stdout, &stderr); code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr.String())
+	}
+	for _, want := range []string{"# timing: total ", "homology ", "overlap measures ", "the homology"} {
+		if !strings.Contains(stdout.String(), want) {
+			t.Errorf("stdout lacks %q:\n%s", want, stdout.String())
+		}
+	}
+}
