@@ -564,8 +564,8 @@ func gluedOverlap(ctx context.Context, actsA, actsB []*mat.Dense, p [2]int, rs S
 
 // matchStages aligns the stages of two traces by their structure: a
 // global alignment (Needleman–Wunsch, gaps free) that may pair only
-// stages of the same kind, scoring equal widths and shared origin nodes
-// higher. It returns the index pairs in order and the unmatched stages.
+// stages of the same kind, scoring equal widths and the same last origin
+// node (the same point of the graph) higher. It returns the index pairs in order and the unmatched stages.
 func matchStages(a, b []Stage) ([][2]int, []string) {
 	na, nb := len(a), len(b)
 	score := func(i, j int) int {
@@ -576,8 +576,10 @@ func matchStages(a, b []Stage) ([][2]int, []string) {
 		if a[i].Width == b[j].Width {
 			s++
 		}
-		if len(a[i].Nodes) > 0 && slices.Equal(a[i].Nodes, b[j].Nodes) {
-			s += 2
+		// Stages that end at the same ONNX node output the same thing,
+		// however many nodes each fused.
+		if na, nb := len(a[i].Nodes), len(b[j].Nodes); na > 0 && nb > 0 && a[i].Nodes[na-1] == b[j].Nodes[nb-1] {
+			s += 3
 		}
 		return s
 	}

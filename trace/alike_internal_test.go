@@ -38,6 +38,15 @@ func TestMatchStages(t *testing.T) {
 		{"deeper", "input:2 affine:16 relu:16 affine:3", "input:2 affine:16 relu:16 affine:16 relu:16 affine:3", "0-0 1-1 2-2 3-5", "B 3 B 4"},
 		{"softmax", "input:2 affine:3 softmax:3", "input:2 affine:3", "0-0 1-1", "A 2"},
 	}
+	// With origin nodes, a fused stage pairs with the unfused stage that
+	// ends at its last node.
+	a := []Stage{{Index: 0, Kind: KindInput, Width: 8}, {Index: 1, Kind: KindAffine, Width: 5, Nodes: []string{"/0/Gemm"}},
+		{Index: 2, Kind: KindAffine, Width: 5, Nodes: []string{"/1/BatchNormalization"}}, {Index: 3, Kind: KindReLU, Width: 5, Nodes: []string{"/2/Relu"}}}
+	b := []Stage{{Index: 0, Kind: KindInput, Width: 8}, {Index: 1, Kind: KindAffine, Width: 5, Nodes: []string{"/0/Gemm", "/1/BatchNormalization"}},
+		{Index: 2, Kind: KindReLU, Width: 5, Nodes: []string{"/2/Relu"}}}
+	if pairs, un := matchStages(a, b); fmt.Sprint(pairs) != "[[0 0] [2 1] [3 2]]" || fmt.Sprint(un) != "[A 1]" {
+		t.Errorf("fused with nodes: pairs %v, unmatched %v; want [[0 0] [2 1] [3 2]] and [A 1]", pairs, un)
+	}
 	for _, tc := range tests {
 		pairs, un := matchStages(stages(tc.a), stages(tc.b))
 		var got []string
