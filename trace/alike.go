@@ -501,16 +501,7 @@ func subsample(s *Sample, keep float64, seed uint64) (*Sample, []int) {
 		rows = append(rows, idx[:m]...)
 	}
 	slices.Sort(rows)
-	_, d := s.X.Dims()
-	out := &Sample{X: mat.NewDense(len(rows), d, nil), Labels: make([]int, len(rows)), Classes: s.Classes, Rows: make([]int, len(rows)), Source: s.Source, SourceRows: s.SourceRows}
-	for k, i := range rows {
-		out.X.SetRow(k, s.X.RawRowView(i))
-		out.Labels[k] = s.Labels[i]
-		if i < len(s.Rows) {
-			out.Rows[k] = s.Rows[i]
-		}
-	}
-	return out, rows
+	return s.subset(rows), rows
 }
 
 // samePattern returns the share of rows whose sets of positive units
@@ -664,12 +655,6 @@ const AlikeSchemaVersion = 1
 // "delta", "spread", "bound", "differs" and "note") and "cka" (A's
 // stages × B's). Numbers that are undefined (NaN) are null.
 func (a *Alikeness) WriteJSON(w io.Writer) error {
-	num := func(x float64) *float64 {
-		if math.IsNaN(x) || math.IsInf(x, 0) {
-			return nil
-		}
-		return &x
-	}
 	type quantity struct {
 		Stage   string   `json:"stage"`
 		Name    string   `json:"name"`
@@ -683,7 +668,7 @@ func (a *Alikeness) WriteJSON(w io.Writer) error {
 		Note    string   `json:"note,omitempty"`
 	}
 	conv := func(q Quantity) quantity {
-		return quantity{q.Stage, q.Name, q.Class, num(q.A), num(q.B), num(q.Delta), num(q.Spread), num(q.Bound), q.Differs, q.Note}
+		return quantity{q.Stage, q.Name, q.Class, finite(q.A), finite(q.B), finite(q.Delta), finite(q.Spread), finite(q.Bound), q.Differs, q.Note}
 	}
 	type pair struct {
 		A           int        `json:"a"`
@@ -714,7 +699,7 @@ func (a *Alikeness) WriteJSON(w io.Writer) error {
 		out.First, out.Verdict = &q, "different"
 	}
 	for _, p := range a.Pairs {
-		pp := pair{A: p.A, B: p.B, Kind: p.Kind, SamePattern: num(p.SamePattern), SharedGlued: num(p.GluedOverlap), Quantities: []quantity{}}
+		pp := pair{A: p.A, B: p.B, Kind: p.Kind, SamePattern: finite(p.SamePattern), SharedGlued: finite(p.GluedOverlap), Quantities: []quantity{}}
 		for _, q := range p.Quantities {
 			pp.Quantities = append(pp.Quantities, conv(q))
 		}
@@ -723,7 +708,7 @@ func (a *Alikeness) WriteJSON(w io.Writer) error {
 	for _, row := range a.CKA {
 		r := make([]*float64, len(row))
 		for j, v := range row {
-			r[j] = num(v)
+			r[j] = finite(v)
 		}
 		out.CKA = append(out.CKA, r)
 	}

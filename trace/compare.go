@@ -9,6 +9,7 @@ import (
 	"math"
 	"slices"
 	"sort"
+	"strconv"
 	"strings"
 
 	"crease.dev/crease/homology"
@@ -294,4 +295,27 @@ func (s *StageComparison) TopMeasure() (name string, delta, relative float64) {
 		return "", 0, 0
 	}
 	return name, s.Measures[name], s.Relative[name]
+}
+
+// Table returns the per-stage table of the comparison that `crease
+// compare` prints and the side-by-side report shows: A's and B's stage,
+// the kind (A/B when they differ), the largest bottleneck distance, the
+// whole sample's Δβ, the classes whose Betti numbers changed, and the
+// measure that changed most relative to its size.
+func (c *Comparison) Table() (header []string, rows [][]string) {
+	header = []string{"A", "B", "kind", "max bottleneck", "whole Δβ", "class Δβ", "largest relative change"}
+	for i := range c.Stages {
+		s := &c.Stages[i]
+		kind := string(s.KindA)
+		if s.KindB != s.KindA {
+			kind += "/" + string(s.KindB)
+		}
+		top := "-"
+		if k, v, r := s.TopMeasure(); k != "" {
+			top = fmt.Sprintf("%s %+.4g (%+.0f %%)", k, v, 100*r)
+		}
+		rows = append(rows, []string{strconv.Itoa(s.Index), strconv.Itoa(s.IndexB), kind,
+			strconv.FormatFloat(s.MaxBottleneck(), 'g', 4, 64), fmt.Sprint(s.Whole.Betti), s.ClassBetti(), top})
+	}
+	return header, rows
 }

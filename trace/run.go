@@ -440,11 +440,13 @@ func group(ctx context.Context, g *Group, cloud *mat.Dense, idx []int, rs Settin
 
 // evidenceOf converts homology's evidence, with nil for +Inf and NaN.
 func evidenceOf(ev homology.Evidence) Evidence {
-	num := func(x float64) *float64 {
-		if math.IsNaN(x) || math.IsInf(x, 0) {
-			return nil
-		}
-		return &x
+	return Evidence{Lo: ev.Lo, Hi: finite(ev.Hi), Weakest: finite(ev.Weakest), Strongest: finite(ev.Strongest), Bound: ev.Bound, Why: ev.Why, Whitened: ev.Whitened}
+}
+
+// finite returns &x, or nil for NaN and ±Inf (JSON's null).
+func finite(x float64) *float64 {
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return nil
 	}
-	return Evidence{Lo: ev.Lo, Hi: num(ev.Hi), Weakest: num(ev.Weakest), Strongest: num(ev.Strongest), Bound: ev.Bound, Why: ev.Why, Whitened: ev.Whitened}
+	return &x
 }

@@ -171,12 +171,20 @@ func (s *Sample) Cap(perClass int, seed uint64) *Sample {
 	if len(keep) == len(s.Labels) {
 		return s
 	}
+	return s.subset(keep)
+}
+
+// subset returns the sample of the rows keep, in that order, with their
+// labels and source row numbers.
+func (s *Sample) subset(keep []int) *Sample {
 	_, d := s.X.Dims()
 	out := &Sample{X: mat.NewDense(len(keep), d, nil), Labels: make([]int, len(keep)), Classes: s.Classes, Rows: make([]int, len(keep)), Source: s.Source, SourceRows: s.SourceRows}
 	for k, i := range keep {
 		out.X.SetRow(k, s.X.RawRowView(i))
 		out.Labels[k] = s.Labels[i]
-		out.Rows[k] = s.Rows[i]
+		if i < len(s.Rows) {
+			out.Rows[k] = s.Rows[i]
+		}
 	}
 	return out
 }

@@ -142,19 +142,10 @@ func runCompare(ctx context.Context, args []string, stdin io.Reader, stdout, std
 		fmt.Fprintln(stderr, "crease compare: warning: "+w)
 	}
 	tw := tabwriter.NewWriter(stdout, 0, 0, 2, ' ', 0)
-	fmt.Fprintln(tw, "A\tB\tkind\tmax bottleneck\twhole Δβ\tclass Δβ\tlargest relative change")
-	for _, s := range c.Stages {
-		kind := s.KindA
-		if s.KindB != s.KindA {
-			kind += "/" + s.KindB
-		}
-		bn := s.MaxBottleneck()
-		cl := s.ClassBetti()
-		name := "-"
-		if k, v, r := s.TopMeasure(); k != "" {
-			name = fmt.Sprintf("%s %+.4g (%+.0f %%)", k, v, 100*r)
-		}
-		fmt.Fprintf(tw, "%d\t%d\t%s\t%.4g\t%v\t%s\t%s\n", s.Index, s.IndexB, kind, bn, s.Whole.Betti, cl, name)
+	cols, rows := c.Table()
+	fmt.Fprintln(tw, strings.Join(cols, "\t"))
+	for _, r := range rows {
+		fmt.Fprintln(tw, strings.Join(r, "\t"))
 	}
 	if err := tw.Flush(); err != nil {
 		return err

@@ -43,20 +43,11 @@ func CompareHTML(w io.Writer, a, b *trace.Trace) error {
 		fmt.Fprintf(&p, "<p><strong>Warning:</strong> %s.</p>\n", e(warn))
 	}
 
-	p.WriteString("<h2>Stage by stage</h2>\n<table>\n<tr><th>A</th><th>B</th><th class=\"l\">kind</th><th>max bottleneck</th><th>whole Δβ</th><th class=\"l\">class Δβ</th><th class=\"l\">largest relative change</th></tr>\n")
-	for _, s := range c.Stages {
-		kind := string(s.KindA)
-		if s.KindB != s.KindA {
-			kind += "/" + string(s.KindB)
-		}
-		bn := s.MaxBottleneck()
-		cl := s.ClassBetti()
-		top := "-"
-		if k, v, r := s.TopMeasure(); k != "" {
-			top = fmt.Sprintf("%s %+.4g (%+.0f %%)", k, v, 100*r)
-		}
-		fmt.Fprintf(&p, "<tr><td>%d</td><td>%d</td><td class=\"l\">%s</td><td>%.4g</td><td>%v</td><td class=\"l\">%s</td><td class=\"l\">%s</td></tr>\n",
-			s.Index, s.IndexB, e(kind), bn, s.Whole.Betti, e(cl), e(top))
+	p.WriteString("<h2>Stage by stage</h2>\n<table>\n")
+	header, rows := c.Table()
+	tableRow(&p, header, "th", 2, 5, 6)
+	for _, r := range rows {
+		tableRow(&p, r, "td", 2, 5, 6)
 	}
 	p.WriteString("</table>\n")
 	if len(c.Unmatched) > 0 {

@@ -11,6 +11,7 @@ import (
 	"fmt"
 	"html"
 	"io"
+	"slices"
 	"strings"
 	"time"
 )
@@ -235,23 +236,25 @@ svg{max-width:100%;height:auto}
 
 // stageTable writes the rows of t.Table into b (inside a <table>).
 func stageTable(b *bytes.Buffer, t *trace.Trace) {
-	e := html.EscapeString
 	header, rows := t.Table()
-	tableRow := func(cells []string, tag string) {
-		b.WriteString("<tr>")
-		for k, c := range cells {
-			cls := ""
-			if k == 1 { // the kind column reads left-aligned
-				cls = ` class="l"`
-			}
-			fmt.Fprintf(b, "<%s%s>%s</%s>", tag, cls, e(c), tag)
-		}
-		b.WriteString("</tr>\n")
-	}
-	tableRow(header, "th")
+	tableRow(b, header, "th", 1)
 	for _, r := range rows {
-		tableRow(r, "td")
+		tableRow(b, r, "td", 1)
 	}
+}
+
+// tableRow writes one row of cells in tag ("th" or "td"), the columns
+// left reading left-aligned.
+func tableRow(b *bytes.Buffer, cells []string, tag string, left ...int) {
+	b.WriteString("<tr>")
+	for k, c := range cells {
+		cls := ""
+		if slices.Contains(left, k) {
+			cls = ` class="l"`
+		}
+		fmt.Fprintf(b, "<%s%s>%s</%s>", tag, cls, html.EscapeString(c), tag)
+	}
+	b.WriteString("</tr>\n")
 }
 
 // bettiCaption is the caption of BettiSVG(t, d), true to what it draws.
