@@ -338,50 +338,39 @@ func CompareModels(ctx context.Context, a, b []onnxload.Stage, s *Sample, set *S
 			q.Differs = q.Delta > q.Bound
 			sp.Quantities = append(sp.Quantities, q)
 		}
-		// Stage measures.
-		for _, mn := range comparedMeasures {
+		// judge compares measure mn of class ("" for the stage), whose
+		// resolution is one of count points when it is a share.
+		judge := func(class, mn string, count int) {
 			m, _ := LookupMeasure(mn)
-			va, oka := sa.Measures[mn]
-			vb, okb := sb.Measures[mn]
+			va, oka := sa.Value(class, mn)
+			vb, okb := sb.Value(class, mn)
 			if !oka || !okb {
-				continue
+				return
 			}
 			var vals []float64
 			for _, rt := range reps {
-				if v, ok := rt.Stages[p[0]].Measures[mn]; ok {
+				if v, ok := rt.Stages[p[0]].Value(class, mn); ok {
 					vals = append(vals, logIf(m.Ratio, v))
 				}
 			}
-			q := Quantity{Stage: name, Name: mn, A: va, B: vb, Delta: logIf(m.Ratio, vb) - logIf(m.Ratio, va), Spread: spread(vals)}
+			q := Quantity{Stage: name, Name: mn, Class: class, A: va, B: vb, Delta: logIf(m.Ratio, vb) - logIf(m.Ratio, va), Spread: spread(vals)}
 			q.Bound = cs.Z * nanZero(q.Spread)
 			if m.Share {
-				q.Bound = max(q.Bound, 1/float64(n))
+				q.Bound = max(q.Bound, 1/float64(max(count, 1)))
 			}
 			q.Differs = math.Abs(q.Delta) > q.Bound
 			sp.Quantities = append(sp.Quantities, q)
 		}
-		// Per class: k-NN accuracy and Betti numbers.
+		for _, mn := range comparedMeasures {
+			judge("", mn, n)
+		}
+		// Per class: k-NN accuracy, barcodes and Betti numbers.
 		for c := range sa.Classes {
 			ga, gb := &sa.Classes[c], sb.Group(sa.Classes[c].Label)
 			if gb == nil {
 				continue
 			}
-			if va, ok := ga.Measures["knn.accuracy"]; ok {
-				if vb, ok := gb.Measures["knn.accuracy"]; ok {
-					var vals []float64
-					for _, rt := range reps {
-						if g := rt.Stages[p[0]].Group(ga.Label); g != nil {
-							if v, ok := g.Measures["knn.accuracy"]; ok {
-								vals = append(vals, v)
-							}
-						}
-					}
-					q := Quantity{Stage: name, Name: "knn.accuracy", Class: ga.Label, A: va, B: vb, Delta: vb - va, Spread: spread(vals)}
-					q.Bound = max(cs.Z*nanZero(q.Spread), 1/float64(max(ga.Count, 1)))
-					q.Differs = math.Abs(q.Delta) > q.Bound
-					sp.Quantities = append(sp.Quantities, q)
-				}
-			}
+			judge(ga.Label, "knn.accuracy", ga.Count)
 			for d := range min(len(ga.Bars), len(gb.Bars)) {
 				if !(ga.Scale > 0) || !(gb.Scale > 0) {
 					break
