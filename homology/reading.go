@@ -223,7 +223,9 @@ type Evidence struct {
 	// the reading holds: every counted class is alive on [Lo, Hi) (for
 	// RuleRelative and RuleHops, Betti_d is constant there). Hi is +Inf
 	// when the counted classes outlive the computation; with nothing
-	// counted, [Lo, Hi) is the range examined.
+	// counted, [Lo, Hi) is the range examined. Lo exceeds Hi when no
+	// single scale shows every counted class (parts of the cloud at
+	// different scales: a small and a large circle).
 	Lo, Hi float64
 	// Weakest is the significance of the weakest counted bar and
 	// Strongest that of the strongest bar left out: p-values under
@@ -453,17 +455,25 @@ func readScale(ctx context.Context, c *cloud, r readResolved) (*Reading, error) 
 // not depend on one. A dimension is confident only when both readings
 // are and agree: a count that a linear change of coordinates overturns
 // is not one the sample decides. A cloud that reads no class above H0
-// in its own coordinates keeps that reading: whitening also stretches
-// the thin directions of arcs and blobs, and on the textbook suite it
-// found loops there that are not there; a stretch, for its part, adds
-// classes (the voids of an ellipse) rather than hiding every one.
+// in its own coordinates keeps its reading of H1: whitening also
+// stretches the thin directions of arcs and blobs, and on the textbook
+// suite it found loops there that are not there. Its voids are read
+// again all the same: a stretch flattens a sphere into an ellipsoid
+// whose void fills at the scale of its shortest axis, before the loops
+// of the sample's noise have died, so that the cloud's own coordinates
+// see no class at all.
 func readRatio(ctx context.Context, c *cloud, r readResolved) (*Reading, error) {
 	rd, groups, err := ratioCore(ctx, c, r)
 	if err != nil || r.MaxDim < 1 || groups == nil {
 		return rd, err
 	}
+	// lo is the lowest dimension read again.
+	lo := 1
 	if !slices.ContainsFunc(rd.Betti[1:], func(b int) bool { return b > 0 }) {
-		return rd, nil
+		if r.MaxDim < 2 {
+			return rd, nil
+		}
+		lo = 2
 	}
 	var parts []*cloud
 	cond := 1.0
@@ -484,7 +494,7 @@ func readRatio(ctx context.Context, c *cloud, r readResolved) (*Reading, error) 
 			return nil, err
 		}
 	}
-	for d := 1; d <= r.MaxDim; d++ {
+	for d := lo; d <= r.MaxDim; d++ {
 		raw, rawSure := rd.Betti[d], rd.Confident[d]
 		rawWhy := rd.Evidence[d].Why
 		sum, sure := 0, true
