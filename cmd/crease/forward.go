@@ -9,7 +9,9 @@ import (
 	"context"
 	"fmt"
 	"io"
+	"runtime"
 	"strconv"
+	"sync"
 
 	"gonum.org/v1/gonum/mat"
 
@@ -68,22 +70,46 @@ func runForward(ctx context.Context, args []string, stdin io.Reader, stdout, std
 	return writeForwardCSV(stdout, outs[k-1])
 }
 
-// writeForwardCSV prints m one row per line with %.17g, which round-trips.
+// writeForwardCSV prints m one row per line with %.17g, which
+// round-trips. Blocks of rows are formatted side by side on up to
+// GOMAXPROCS goroutines (the forward pass is over by then) and written in
+// order.
 func writeForwardCSV(w io.Writer, m *mat.Dense) error {
+	const blockRows = 1024
 	bw := bufio.NewWriter(w)
 	r, c := m.Dims()
-	buf := make([]byte, 0, 32*c)
-	for i := 0; i < r; i++ {
-		buf = buf[:0]
-		for j := 0; j < c; j++ {
-			if j > 0 {
-				buf = append(buf, ',')
+	workers := max(1, runtime.GOMAXPROCS(0))
+	bufs := make([][]byte, workers)
+	for start := 0; start < r; start += workers * blockRows {
+		var wg sync.WaitGroup
+		for k := range workers {
+			lo := start + k*blockRows
+			hi := min(lo+blockRows, r)
+			if lo >= hi {
+				bufs[k] = bufs[k][:0]
+				continue
 			}
-			buf = strconv.AppendFloat(buf, m.At(i, j), 'g', 17, 64)
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				buf := bufs[k][:0]
+				for i := lo; i < hi; i++ {
+					for j, v := range m.RawRowView(i)[:c] {
+						if j > 0 {
+							buf = append(buf, ',')
+						}
+						buf = strconv.AppendFloat(buf, v, 'g', 17, 64)
+					}
+					buf = append(buf, '\n')
+				}
+				bufs[k] = buf
+			}()
 		}
-		buf = append(buf, '\n')
-		if _, err := bw.Write(buf); err != nil {
-			return err
+		wg.Wait()
+		for _, buf := range bufs {
+			if _, err := bw.Write(buf); err != nil {
+				return err
+			}
 		}
 	}
 	return bw.Flush()

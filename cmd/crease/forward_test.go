@@ -6,11 +6,14 @@ package main
 
 import (
 	"bytes"
+	"io"
 	"math"
 	"os"
 	"strconv"
 	"strings"
 	"testing"
+
+	"gonum.org/v1/gonum/mat"
 )
 
 func onnxCSV(rows [][]float64) string {
@@ -135,4 +138,24 @@ func TestForwardLabeledCSV(t *testing.T) {
 			t.Errorf("%s: --labels output differs from the unlabeled rows' (%d and %d bytes)", cmd[0], a.Len(), b.Len())
 		}
 	}
+}
+
+// BenchmarkWriteForwardCSV prints 20 000 rows of 64 outputs, the shape
+// of a hidden stage of the digits model, and reports rows per second.
+func BenchmarkWriteForwardCSV(b *testing.B) {
+	const rows, cols = 20000, 64
+	m := mat.NewDense(rows, cols, nil)
+	x := uint64(1)
+	for i := range rows {
+		for j := range cols {
+			x = x*6364136223846793005 + 1442695040888963407
+			m.Set(i, j, float64(x>>11)/(1<<53)*100-50)
+		}
+	}
+	for b.Loop() {
+		if err := writeForwardCSV(io.Discard, m); err != nil {
+			b.Fatal(err)
+		}
+	}
+	b.ReportMetric(float64(rows)*float64(b.N)/b.Elapsed().Seconds(), "rows/s")
 }

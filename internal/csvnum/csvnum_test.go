@@ -9,6 +9,7 @@ import (
 	"io"
 	"math"
 	"runtime"
+	"strconv"
 	"strings"
 	"testing"
 	"testing/iotest"
@@ -171,4 +172,32 @@ func FuzzRead(f *testing.F) {
 			}
 		}
 	})
+}
+
+// BenchmarkRead reads a table of 20 000 rows of 64 cells printed as
+// crease forward and numpy print them, and reports rows per second.
+func BenchmarkRead(b *testing.B) {
+	const rows, cols = 20000, 64
+	var sb strings.Builder
+	x := uint64(1)
+	for range rows {
+		for j := range cols {
+			if j > 0 {
+				sb.WriteByte(',')
+			}
+			x = x*6364136223846793005 + 1442695040888963407
+			sb.WriteString(strconv.FormatFloat(float64(x>>11)/(1<<53)*16, 'g', 7, 64))
+		}
+		sb.WriteByte('\n')
+	}
+	in := sb.String()
+	b.SetBytes(int64(len(in)))
+	b.ResetTimer()
+	for b.Loop() {
+		data, width, err := Read(strings.NewReader(in), "bench", nil)
+		if err != nil || width != cols || len(data) != rows*cols {
+			b.Fatalf("got %d cells of width %d, %v", len(data), width, err)
+		}
+	}
+	b.ReportMetric(float64(rows)*float64(b.N)/b.Elapsed().Seconds(), "rows/s")
 }
