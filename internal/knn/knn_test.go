@@ -15,6 +15,8 @@ import (
 	"sync"
 	"testing"
 
+	"gonum.org/v1/gonum/blas"
+	"gonum.org/v1/gonum/blas/blas64"
 	"gonum.org/v1/gonum/mat"
 
 	"crease.dev/crease/homology"
@@ -249,7 +251,7 @@ func TestPairsVisitError(t *testing.T) {
 }
 
 func BenchmarkSearch(b *testing.B) {
-	for _, n := range []int{1000, 5000, 20000} {
+	for _, n := range []int{300, 1000, 5000, 20000} {
 		b.Run(fmt.Sprintf("n=%d/d=64/k=10", n), func(b *testing.B) {
 			x := randCloud(rand.New(rand.NewPCG(1, 1)), n, 64, 0, false)
 			b.ReportAllocs()
@@ -259,6 +261,65 @@ func BenchmarkSearch(b *testing.B) {
 				}
 			}
 		})
+	}
+}
+
+// BenchmarkGram compares Gram, one Dgemv per row, with the Dgemm it
+// replaced, on blocks of the sizes Search, Pairs and the overlap
+// measures use (rowBlock rows against a trace's class or stage, or a
+// full column block). Dgemm runs on goroutines of its own, so its time
+// per operation is wall time on all cores; Gram runs on one.
+func BenchmarkGram(b *testing.B) {
+	for _, sz := range []struct{ m, n, d int }{{128, 300, 64}, {128, 300, 16}, {128, 300, 3}, {128, 1024, 64}, {128, 1024, 512}} {
+		rng := rand.New(rand.NewPCG(1, 2))
+		a := blas64.General{Rows: sz.m, Cols: sz.d, Stride: sz.d, Data: make([]float64, sz.m*sz.d)}
+		c := blas64.General{Rows: sz.n, Cols: sz.d, Stride: sz.d, Data: make([]float64, sz.n*sz.d)}
+		for i := range a.Data {
+			a.Data[i] = rng.NormFloat64()
+		}
+		for i := range c.Data {
+			c.Data[i] = rng.NormFloat64()
+		}
+		dst := blas64.General{Rows: sz.m, Cols: sz.n, Stride: sz.n, Data: make([]float64, sz.m*sz.n)}
+		name := fmt.Sprintf("%dx%dx%d", sz.m, sz.n, sz.d)
+		b.Run(name+"/Gram", func(b *testing.B) {
+			for b.Loop() {
+				Gram(dst, a, c)
+			}
+		})
+		b.Run(name+"/Dgemm", func(b *testing.B) {
+			for b.Loop() {
+				blas64.Gemm(blas.NoTrans, blas.Trans, 1, a, c, 0, dst)
+			}
+		})
+	}
+}
+
+// TestGram checks Gram against the direct dot products, on a block with
+// strides wider than its columns.
+func TestGram(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	const m, n, d = 7, 9, 5
+	a := blas64.General{Rows: m, Cols: d, Stride: d + 2, Data: make([]float64, m*(d+2))}
+	c := blas64.General{Rows: n, Cols: d, Stride: d + 1, Data: make([]float64, n*(d+1))}
+	for i := range a.Data {
+		a.Data[i] = rng.NormFloat64()
+	}
+	for i := range c.Data {
+		c.Data[i] = rng.NormFloat64()
+	}
+	dst := blas64.General{Rows: m, Cols: n, Stride: n + 3, Data: make([]float64, m*(n+3))}
+	Gram(dst, a, c)
+	for i := range m {
+		for j := range n {
+			var want float64
+			for k := range d {
+				want += a.Data[i*a.Stride+k] * c.Data[j*c.Stride+k]
+			}
+			if got := dst.Data[i*dst.Stride+j]; math.Abs(got-want) > 1e-12*(1+math.Abs(want)) {
+				t.Errorf("(%d,%d) = %v, want %v", i, j, got, want)
+			}
+		}
 	}
 }
 

@@ -52,7 +52,7 @@ func (c *Cloud) Pairs(ctx context.Context, r float64, visit func(batch []Pair) e
 	nb := (c.n + rowBlock - 1) / rowBlock
 	return parallel(ctx, nb, c.progress, func(w, b int) error {
 		if bufs[w] == nil {
-			bufs[w] = make([]float64, rowBlock*colBlock)
+			bufs[w] = make([]float64, blockLen(c.n))
 		}
 		i0, i1 := b*rowBlock, min((b+1)*rowBlock, c.n)
 		for j0 := i0; j0 < c.n; j0 += colBlock {

@@ -8,8 +8,9 @@ import (
 	"context"
 	"math"
 
-	"gonum.org/v1/gonum/blas"
 	"gonum.org/v1/gonum/blas/blas64"
+
+	"crease.dev/crease/internal/knn"
 )
 
 // blockBytes bounds the distance block held at one time (rows × n × 8).
@@ -57,7 +58,7 @@ func (s *sample) centred() ([]float64, []float64) {
 
 // distBlocks calls fn for consecutive row blocks [i0,i1) with the
 // (i1−i0)×n Euclidean distances, computed as √max(0, ‖a‖²+‖b‖²−2a·b) by
-// one BLAS product per block, and exactly 0 on the diagonal. dst is
+// one product per block (knn.Gram), and exactly 0 on the diagonal. dst is
 // reused between calls. It stops with ctx.Err() when ctx is cancelled.
 func (s *sample) distBlocks(ctx context.Context, fn func(i0, i1 int, dst []float64)) error {
 	c, sq := s.centred()
@@ -71,7 +72,7 @@ func (s *sample) distBlocks(ctx context.Context, fn func(i0, i1 int, dst []float
 		i1 := min(i0+rows, s.n)
 		a := blas64.General{Rows: i1 - i0, Cols: s.d, Stride: s.d, Data: c[i0*s.d : i1*s.d]}
 		g := blas64.General{Rows: i1 - i0, Cols: s.n, Stride: s.n, Data: buf[:(i1-i0)*s.n]}
-		blas64.Gemm(blas.NoTrans, blas.Trans, 1, a, all, 0, g)
+		knn.Gram(g, a, all)
 		for r := 0; r < i1-i0; r++ {
 			i := i0 + r
 			row := g.Data[r*s.n : (r+1)*s.n]

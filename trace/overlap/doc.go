@@ -35,7 +35,11 @@
 //
 // Distances are computed in blocks of rows against the whole sample with
 // gonum's BLAS, so Margin and Silhouette take O(n²·d) time and
-// O(n·block) memory. The probe costs O(iterations·n·d·C) per fold.
+// O(n·block) memory; [Measure] computes both from one pass. The probe
+// costs O(iterations·n·d·C) per fold, where d counts the columns that
+// are not constant on the fold's training points; its folds, and the
+// nearest-neighbour search, use the context's worker budget
+// (internal/budget), and nothing else starts goroutines.
 //
 // Results are deterministic for the same inputs and settings. All
 // functions are safe for concurrent use; they keep no state.

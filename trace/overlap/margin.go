@@ -40,36 +40,61 @@ func Margin(ctx context.Context, x mat.Matrix, labels []int) (*MarginResult, err
 }
 
 func margin(ctx context.Context, s *sample) (*MarginResult, error) {
-	res := &MarginResult{Cross: math.Inf(1), CrossPair: [2]int{-1, -1}}
-	nearSame := make([]int, s.n)
-	err := s.distBlocks(ctx, func(i0, i1 int, d []float64) {
-		for r := 0; r < i1-i0; r++ {
-			i := i0 + r
-			row := d[r*s.n : (r+1)*s.n]
-			own := s.labels[i]
-			bs, js := math.Inf(1), -1
-			for j, v := range row {
-				if j == i {
-					continue
-				}
-				if s.labels[j] == own {
-					if v < bs {
-						bs, js = v, j
-					}
-				} else if v < res.Cross {
-					res.Cross, res.CrossPair = v, [2]int{i, j}
-				}
-			}
-			nearSame[i] = js
-		}
-	})
-	if err != nil {
+	p := newMarginPass(s)
+	if err := s.distBlocks(ctx, p.rows); err != nil {
 		return nil, err
 	}
+	return p.result(), nil
+}
+
+// marginPass accumulates the margin over the blocks of distances of
+// [sample.distBlocks], so that [Measure] can share one pass with the
+// silhouette.
+type marginPass struct {
+	s        *sample
+	res      *MarginResult
+	nearSame []int // nearest other point of the same class, −1 if none
+}
+
+func newMarginPass(s *sample) *marginPass {
+	return &marginPass{
+		s:        s,
+		res:      &MarginResult{Cross: math.Inf(1), CrossPair: [2]int{-1, -1}},
+		nearSame: make([]int, s.n),
+	}
+}
+
+// rows takes the distances of rows [i0,i1) to every point.
+func (p *marginPass) rows(i0, i1 int, d []float64) {
+	s, res := p.s, p.res
+	for r := 0; r < i1-i0; r++ {
+		i := i0 + r
+		row := d[r*s.n : (r+1)*s.n]
+		own := s.labels[i]
+		bs, js := math.Inf(1), -1
+		for j, v := range row {
+			if j == i {
+				continue
+			}
+			if s.labels[j] == own {
+				if v < bs {
+					bs, js = v, j
+				}
+			} else if v < res.Cross {
+				res.Cross, res.CrossPair = v, [2]int{i, j}
+			}
+		}
+		p.nearSame[i] = js
+	}
+}
+
+// result recomputes the attaining distances from the coordinates.
+func (p *marginPass) result() *MarginResult {
+	s, res := p.s, p.res
 	res.Cross = s.exactDist(res.CrossPair[0], res.CrossPair[1])
 	var sum float64
 	var m int
-	for i, j := range nearSame {
+	for i, j := range p.nearSame {
 		if j >= 0 {
 			sum += s.exactDist(i, j)
 			m++
@@ -79,5 +104,5 @@ func margin(ctx context.Context, s *sample) (*MarginResult, error) {
 		res.Within = sum / float64(m)
 	}
 	res.Ratio = res.Cross / res.Within
-	return res, nil
+	return res
 }

@@ -55,7 +55,8 @@ type Report struct {
 
 // Measure computes every measure of the package on the labeled sample x,
 // sharing one nearest-neighbour graph between the k-NN agreement and
-// TwoNN. It stops with ctx.Err() when ctx is cancelled.
+// TwoNN, and one pass over the pairwise distances between the margin and
+// the silhouette. It stops with ctx.Err() when ctx is cancelled.
 func Measure(ctx context.Context, x mat.Matrix, labels []int, set *Settings) (*Report, error) {
 	s, err := newSample("measure", x, labels, true)
 	if err != nil {
@@ -120,9 +121,24 @@ func Measure(ctx context.Context, x mat.Matrix, labels []int, set *Settings) (*R
 	if err := step("twonn"); err != nil {
 		return nil, err
 	}
-	if rep.Margin, err = margin(ctx, s); err != nil {
+	// The margin and the silhouette read one pass over the distances.
+	mp := newMarginPass(s)
+	var sp *silhouettePass
+	if s.present < s.n {
+		if sp, err = newSilhouettePass(s); err != nil {
+			return nil, err
+		}
+	}
+	err = s.distBlocks(ctx, func(i0, i1 int, d []float64) {
+		mp.rows(i0, i1, d)
+		if sp != nil {
+			sp.rows(i0, i1, d)
+		}
+	})
+	if err != nil {
 		return nil, err
 	}
+	rep.Margin = mp.result()
 	if err := step("margin"); err != nil {
 		return nil, err
 	}
@@ -130,10 +146,8 @@ func Measure(ctx context.Context, x mat.Matrix, labels []int, set *Settings) (*R
 	if err := step("fisher"); err != nil {
 		return nil, err
 	}
-	if s.present < s.n {
-		if rep.Silhouette, err = silhouette(ctx, s); err != nil {
-			return nil, err
-		}
+	if sp != nil {
+		rep.Silhouette = sp.result()
 	}
 	if err := step("silhouette"); err != nil {
 		return nil, err

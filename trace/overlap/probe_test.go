@@ -9,6 +9,7 @@ import (
 	"errors"
 	"math"
 	"reflect"
+	"slices"
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
@@ -141,5 +142,164 @@ func TestMeasureSettings(t *testing.T) {
 	}
 	if _, err := Measure(context.Background(), mat.NewDense(2, 2, []float64{2, 0, 0, 0}), []int{0, 1}, &Settings{Softmax: true}); err == nil {
 		t.Errorf("Measure accepted non-probability rows with Softmax set")
+	}
+}
+
+// heldOut returns the held-out prediction of every point under the
+// folds of [Folds] with settings r.
+func heldOut(t *testing.T, s *sample, r ProbeSettings) []int {
+	t.Helper()
+	fold, err := Folds(s.labels, r.Folds, r.Seed)
+	if err != nil {
+		t.Fatal(err)
+	}
+	pred := make([]int, s.n)
+	for f := range r.Folds {
+		var train []int
+		for i, g := range fold {
+			if g != f {
+				train = append(train, i)
+			}
+		}
+		m, err := fitLogistic(context.Background(), s, train, r)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i, g := range fold {
+			if g == f {
+				pred[i] = m.predict(s.row(i))
+			}
+		}
+	}
+	return pred
+}
+
+// TestProbeGradTol checks that the default stopping tolerance is tight
+// enough for what the probe reports: on the fixtures every held-out
+// prediction equals that of fits run to GradTol 1e-11, well past the
+// default.
+func TestProbeGradTol(t *testing.T) {
+	for _, name := range fixtureNames {
+		f := loadFixture(t, name)
+		s, err := newSample("probe", f.matrix(), f.Labels, true)
+		if err != nil {
+			t.Fatal(err)
+		}
+		set := ProbeSettings{Folds: f.Probe.Folds, Seed: f.Probe.Seed, C: f.Probe.C}
+		got := heldOut(t, s, set.resolvedValue())
+		set.GradTol = 1e-11
+		want := heldOut(t, s, set.resolvedValue())
+		for i := range got {
+			if got[i] != want[i] {
+				t.Errorf("%s: point %d predicted %d at the default GradTol %v, %d at 1e-11", name, i, got[i], DefaultGradTol, want[i])
+			}
+		}
+	}
+}
+
+// TestProbeConstantColumns checks that columns constant on the sample
+// (left out of the fit, see fitLogistic) change no prediction: the blobs
+// fixture with two zero columns and a constant one gives the fixture's
+// own held-out predictions; and that a sample with no other column is
+// fitted by its intercepts.
+func TestProbeConstantColumns(t *testing.T) {
+	f := loadFixture(t, "blobs")
+	x := f.matrix()
+	n, d := x.Dims()
+	wide := mat.NewDense(n, d+3, nil)
+	for i := range n {
+		for j := range d {
+			wide.Set(i, j+1, x.At(i, j))
+		}
+		wide.Set(i, d+2, 3.5)
+	}
+	set := ProbeSettings{Folds: f.Probe.Folds, Seed: f.Probe.Seed, C: f.Probe.C}.resolvedValue()
+	s, err := newSample("probe", x, f.Labels, true)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sw, err := newSample("probe", wide, f.Labels, true)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want, got := heldOut(t, s, set), heldOut(t, sw, set); !reflect.DeepEqual(got, want) {
+		t.Errorf("with constant columns the predictions differ:\n got %v\nwant %v", got, want)
+	}
+	// With every column constant only the intercepts are fitted, and the
+	// model predicts the most frequent class of its training fold: here
+	// class 0 (15 of 30 points; 12 of the 24 in every training fold).
+	flat := mat.NewDense(30, 2, nil)
+	labels := make([]int, 30)
+	for i := range labels {
+		flat.Set(i, 1, 2)
+		switch {
+		case i < 15:
+			labels[i] = 0
+		case i < 24:
+			labels[i] = 1
+		default:
+			labels[i] = 2
+		}
+	}
+	r, err := Probe(context.Background(), flat, labels, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.Accuracy != 0.5 || !r.Converged {
+		t.Errorf("constant sample: accuracy %v, converged %v; want 0.5 (every point predicted as class 0), converged", r.Accuracy, r.Converged)
+	}
+}
+
+// TestSoftmaxLoss checks the probe's objective and gradient against the
+// textbook formulas evaluated term by term (Bishop, Pattern Recognition
+// and Machine Learning, §4.3.4, eq. 4.109 for the gradient of the
+// cross-entropy), and that an evaluation allocates nothing.
+func TestSoftmaxLoss(t *testing.T) {
+	const n, d, k = 37, 5, 4
+	o, theta := benchLoss(n, d, k)
+	xs := slices.Clone(o.x.Data)
+	grad := make([]float64, len(theta))
+	f := o.eval(grad, theta)
+	var want float64
+	wantGrad := make([]float64, len(theta))
+	copy(wantGrad, theta[:k*d])
+	for c := k * d; c < len(wantGrad); c++ {
+		wantGrad[c] = 0
+	}
+	for _, v := range theta[:k*d] {
+		want += 0.5 * v * v
+	}
+	for a := range n {
+		z := make([]float64, k)
+		var sum float64
+		for c := range k {
+			z[c] = theta[k*d+c]
+			for j := range d {
+				z[c] += theta[c*d+j] * xs[a*d+j]
+			}
+			sum += math.Exp(z[c])
+		}
+		want += math.Log(sum) - z[o.y[a]]
+		for c := range k {
+			r := math.Exp(z[c]) / sum
+			if c == o.y[a] {
+				r--
+			}
+			for j := range d {
+				wantGrad[c*d+j] += r * xs[a*d+j]
+			}
+			wantGrad[k*d+c] += r
+		}
+	}
+	if math.Abs(f-want) > 1e-12*want {
+		t.Errorf("objective %v, want %v", f, want)
+	}
+	for i := range grad {
+		if math.Abs(grad[i]-wantGrad[i]) > 1e-12*(1+math.Abs(wantGrad[i])) {
+			t.Errorf("gradient[%d] = %v, want %v", i, grad[i], wantGrad[i])
+		}
+	}
+	if allocs := testing.AllocsPerRun(10, func() { o.eval(grad, theta) }); allocs != 0 {
+		t.Errorf("an evaluation allocates %v times, want 0", allocs)
 	}
 }

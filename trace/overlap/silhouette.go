@@ -36,42 +36,65 @@ func Silhouette(ctx context.Context, x mat.Matrix, labels []int) (*SilhouetteRes
 }
 
 func silhouette(ctx context.Context, s *sample) (*SilhouetteResult, error) {
-	if s.present >= s.n {
-		return nil, errorf("silhouette", -1, -1, "%d classes for %d rows; need fewer classes than rows", s.present, s.n)
-	}
-	sil := make([]float64, s.n)
-	sums := make([]float64, s.classes)
-	err := s.distBlocks(ctx, func(i0, i1 int, d []float64) {
-		for r := 0; r < i1-i0; r++ {
-			i := i0 + r
-			for c := range sums {
-				sums[c] = 0
-			}
-			for j, v := range d[r*s.n : (r+1)*s.n] {
-				sums[s.labels[j]] += v
-			}
-			own := s.labels[i]
-			if s.count[own] == 1 {
-				sil[i] = 0
-				continue
-			}
-			a := sums[own] / float64(s.count[own]-1)
-			b := math.Inf(1)
-			for c, t := range sums {
-				if c != own && s.count[c] > 0 {
-					b = math.Min(b, t/float64(s.count[c]))
-				}
-			}
-			if m := math.Max(a, b); m > 0 {
-				sil[i] = (b - a) / m
-			}
-		}
-	})
+	p, err := newSilhouettePass(s)
 	if err != nil {
 		return nil, err
 	}
+	if err := s.distBlocks(ctx, p.rows); err != nil {
+		return nil, err
+	}
+	return p.result(), nil
+}
+
+// silhouettePass accumulates the silhouette over the blocks of distances
+// of [sample.distBlocks], so that [Measure] can share one pass with the
+// margin.
+type silhouettePass struct {
+	s    *sample
+	sil  []float64 // s(i)
+	sums []float64 // per class, for the current row
+}
+
+func newSilhouettePass(s *sample) (*silhouettePass, error) {
+	if s.present >= s.n {
+		return nil, errorf("silhouette", -1, -1, "%d classes for %d rows; need fewer classes than rows", s.present, s.n)
+	}
+	return &silhouettePass{s: s, sil: make([]float64, s.n), sums: make([]float64, s.classes)}, nil
+}
+
+// rows takes the distances of rows [i0,i1) to every point.
+func (p *silhouettePass) rows(i0, i1 int, d []float64) {
+	s, sums := p.s, p.sums
+	for r := 0; r < i1-i0; r++ {
+		i := i0 + r
+		for c := range sums {
+			sums[c] = 0
+		}
+		for j, v := range d[r*s.n : (r+1)*s.n] {
+			sums[s.labels[j]] += v
+		}
+		own := s.labels[i]
+		if s.count[own] == 1 {
+			p.sil[i] = 0
+			continue
+		}
+		a := sums[own] / float64(s.count[own]-1)
+		b := math.Inf(1)
+		for c, t := range sums {
+			if c != own && s.count[c] > 0 {
+				b = math.Min(b, t/float64(s.count[c]))
+			}
+		}
+		if m := math.Max(a, b); m > 0 {
+			p.sil[i] = (b - a) / m
+		}
+	}
+}
+
+func (p *silhouettePass) result() *SilhouetteResult {
+	s := p.s
 	res := &SilhouetteResult{Class: make([]float64, s.classes)}
-	for i, v := range sil {
+	for i, v := range p.sil {
 		res.Score += v
 		res.Class[s.labels[i]] += v
 	}
@@ -79,5 +102,5 @@ func silhouette(ctx context.Context, s *sample) (*SilhouetteResult, error) {
 	for c := range res.Class {
 		res.Class[c] /= float64(s.count[c])
 	}
-	return res, nil
+	return res
 }

@@ -8,8 +8,62 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"slices"
 	"testing"
+
+	"gonum.org/v1/gonum/optimize"
 )
+
+// minimizeLBFGS is the probe's solver as it was before lbfgs drove
+// optimize's method itself: the same method, line search and stopping
+// rules through optimize.Minimize. TestLBFGSMatchesMinimize checks that
+// both give the same iterates; BenchmarkSolvers compares their times.
+func minimizeLBFGS(ctx context.Context, eval func(grad, x []float64) float64, x []float64, gtol float64, maxIter int) (int, bool, error) {
+	n := len(x)
+	// optimize asks for f and ∇f separately, usually at the same
+	// point: evaluate both once per point.
+	last := make([]float64, n)
+	lastG := make([]float64, n)
+	var lastF float64
+	have := false
+	at := func(p []float64) {
+		if have && slices.Equal(p, last) {
+			return
+		}
+		copy(last, p)
+		lastF = eval(lastG, p)
+		have = true
+	}
+	prob := optimize.Problem{
+		Func: func(p []float64) float64 { at(p); return lastF },
+		Grad: func(g, p []float64) { at(p); copy(g, lastG) },
+	}
+	set := &optimize.Settings{
+		GradientThreshold: gtol,
+		MajorIterations:   maxIter,
+		Converger:         &optimize.FunctionConverge{Relative: funcRelTol, Iterations: funcIters},
+		Recorder:          ctxRecorder{ctx},
+	}
+	res, err := optimize.Minimize(prob, x, set, &optimize.LBFGS{Store: lbfgsMemory})
+	if cerr := ctx.Err(); cerr != nil {
+		return 0, false, cerr
+	}
+	if res == nil {
+		return 0, false, err
+	}
+	copy(x, res.X)
+	ok := res.Status == optimize.GradientThreshold || res.Status == optimize.FunctionConvergence
+	return res.MajorIterations, ok, nil
+}
+
+// ctxRecorder stops a minimisation once its context is done.
+type ctxRecorder struct{ ctx context.Context }
+
+func (r ctxRecorder) Init() error { return r.ctx.Err() }
+
+func (r ctxRecorder) Record(*optimize.Location, optimize.Operation, *optimize.Stats) error {
+	return r.ctx.Err()
+}
 
 // ownLBFGS is the hand-written solver the probe used before it moved
 // to gonum's optimize package; BenchmarkSolvers keeps it as the
@@ -129,9 +183,11 @@ func infNorm(a []float64) float64 {
 }
 
 // BenchmarkSolvers fits the linear probe's regularised logistic model
-// on every point of a sample with our L-BFGS and with gonum's
-// optimize.LBFGS, and reports the objective each reaches and the
-// training accuracy, so that speed is compared at equal accuracy.
+// on every point of a sample with our hand-written L-BFGS ("ours"), with
+// gonum's optimize.LBFGS through optimize.Minimize ("minimize") and
+// with the same method driven by lbfgs ("gonum", the probe's solver),
+// at the default settings, and reports the objective each reaches and
+// the training accuracy, so that speed is compared at equal accuracy.
 //
 //	go test ./trace/overlap -run - -bench Solvers
 func BenchmarkSolvers(b *testing.B) {
@@ -186,7 +242,7 @@ func BenchmarkSolvers(b *testing.B) {
 		for _, sv := range []struct {
 			name string
 			f    func(context.Context, func(grad, x []float64) float64, []float64, float64, int) (int, bool, error)
-		}{{"ours", ownLBFGS}, {"gonum", lbfgs}} {
+		}{{"ours", ownLBFGS}, {"minimize", minimizeLBFGS}, {"gonum", lbfgs}} {
 			b.Run(fmt.Sprintf("n=%d/d=%d/C=%d/%s", sz.n, sz.d, sz.c, sv.name), func(b *testing.B) {
 				minimizer = sv.f
 				defer func() { minimizer = lbfgs }()
@@ -199,5 +255,72 @@ func BenchmarkSolvers(b *testing.B) {
 				b.ReportMetric(acc, "train-acc")
 			})
 		}
+	}
+}
+
+// TestLBFGSMatchesMinimize checks that lbfgs, which drives optimize's
+// L-BFGS and line search itself, takes the iterates optimize.Minimize
+// takes with the same method and stopping rules: the same iteration
+// count, the same verdict and the same weights to the last bit, on the
+// probe's objective (one fold of the digits fixture) and on a badly
+// scaled quadratic.
+func TestLBFGSMatchesMinimize(t *testing.T) {
+	f := loadFixture(t, "digits")
+	s, err := newSample("test", f.matrix(), f.Labels, true)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var train []int
+	for i, g := range f.Folds {
+		if g != 0 {
+			train = append(train, i)
+		}
+	}
+	quad := func(g, x []float64) float64 {
+		var v float64
+		for i, xi := range x {
+			w := math.Pow(10, float64(i%7))
+			v += w * (xi - 1) * (xi - 1)
+			g[i] = 2 * w * (xi - 1)
+		}
+		return v
+	}
+	type solver = func(context.Context, func(grad, x []float64) float64, []float64, float64, int) (int, bool, error)
+	// onQuad fits the quadratic from 0 with the given stopping rules.
+	onQuad := func(gtol float64, maxIter int) func(solver) ([]float64, int, bool) {
+		return func(m solver) ([]float64, int, bool) {
+			x := make([]float64, 40)
+			it, ok, err := m(context.Background(), quad, x, gtol, maxIter)
+			if err != nil {
+				t.Fatal(err)
+			}
+			return x, it, ok
+		}
+	}
+	r := (&ProbeSettings{}).resolved()
+	for _, test := range []struct {
+		name string
+		fit  func(solver) ([]float64, int, bool)
+	}{
+		{"probe objective", func(m solver) ([]float64, int, bool) {
+			minimizer = m
+			defer func() { minimizer = lbfgs }()
+			l, err := fitLogistic(context.Background(), s, train, r)
+			if err != nil {
+				t.Fatal(err)
+			}
+			return l.w, l.iter, l.converged
+		}},
+		{"quadratic, iteration limit", onQuad(1e-300, 25)},
+		{"quadratic, to convergence", onQuad(1e-9, 1000)},
+	} {
+		t.Run(test.name, func(t *testing.T) {
+			wantX, wantIt, wantOK := test.fit(minimizeLBFGS)
+			gotX, gotIt, gotOK := test.fit(lbfgs)
+			if gotIt != wantIt || gotOK != wantOK || !slices.Equal(gotX, wantX) {
+				t.Errorf("lbfgs: %d iterations, converged %v; Minimize: %d, %v; same result %v",
+					gotIt, gotOK, wantIt, wantOK, slices.Equal(gotX, wantX))
+			}
+		})
 	}
 }
