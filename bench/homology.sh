@@ -3,64 +3,96 @@
 # Use of this source code is governed by a BSD-style
 # license that can be found in the LICENSE file.
 #
-# bench/homology.sh times `crease barcode` against GUDHI (Debian
-# python3-gudhi, run with /usr/bin/python3) on the committed clouds of
-# testdata/homology/bench and the settings of issue 3's calibration table,
-# in one run, and prints one table row per case:
+# bench/homology.sh times `crease barcode` against the reference programs
+# that are installed, on the same clouds and settings, in one run, and
+# prints one table row per case:
 #
 #   crease     the whole `crease barcode CLOUD --top-dim D [--stop-at T]`
 #              process (CSV parse, distances, barcode, printing)
-#   gudhi-rips RipsComplex(points, max_edge_length=T)
-#              .create_simplex_tree(max_dimension=D+1).persistence(2, 0)
-#   gudhi-ec   the edge-collapse path: RipsComplex(...)
-#              .create_simplex_tree(max_dimension=1), collapse_edges(ITER),
-#              expansion(D+1), persistence(2, 0)
-#
-# Each GUDHI process also loads the CSV with numpy and, for the
-# enclosing-radius cases, computes that radius (crease does both too).
-# Times are medians of RUNS whole-process runs (wall clock and user+sys
-# CPU), memory the median peak RSS, all from /usr/bin/time -v. A GUDHI run
-# that exceeds GUDHI_TIMEOUT seconds or GUDHI_MEM_GB of address space is
-# reported as "timeout"/"oom" and not repeated; after a timeout the ratio
-# is an upper bound, after running out of memory it is "n/a" (GUDHI cannot
-# finish within GUDHI_MEM_GB at all).
-# The bar counts per dimension (bars longer than 1e-9) of crease and GUDHI
-# are compared and a mismatch is flagged in the last column.
-#
 #   ripser     Ripser (the reference implementation of U. Bauer, "Ripser:
 #              efficient computation of Vietoris–Rips persistence
-#              barcodes", J. Appl. Comput. Topol. 5, 2021) when RIPSER names
-#              its binary: `ripser --format point-cloud --dim D
-#              [--threshold T] CLOUD`. Bring its source with the search
-#              tool's fetch (github:Ripser/ripser) and build it outside this
-#              repository (c++ -std=c++11 -O3 -D NDEBUG ripser.cpp -o
-#              ripser); none of its code is kept here.
+#              barcodes", J. Appl. Comput. Topol. 5, 2021): `ripser
+#              --format point-cloud --dim D [--threshold T] CLOUD`, when
+#              RIPSER names its binary or `ripser` is on the PATH. Bring
+#              its source with the search tool's fetch (github:Ripser/ripser)
+#              and build it outside this repository (c++ -std=c++11 -O3
+#              -D NDEBUG ripser.cpp -o ripser); none of its code is kept
+#              here. Ripser computes in float (value_t) and prints six
+#              significant digits.
+#   gudhi-ec   GUDHI's exact edge collapse, in C++: bench/gudhi_collapse.cpp
+#              (our driver; see its comment) against Debian's libgudhi-dev
+#              3.7.1 headers, built by this script into its temporary
+#              directory when GUDHI_EC=1, or by default when the headers
+#              are installed (apt-get install libgudhi-dev libboost-dev).
+#              It is never built by go test or .ci/run.
+#   py-rips    MODES "rips": GUDHI's Python RipsComplex(points,
+#              max_edge_length=T).create_simplex_tree(max_dimension=D+1)
+#              .persistence(2, 0) (Debian python3-gudhi)
+#   py-ec      MODES "ec": the same through create_simplex_tree(
+#              max_dimension=1), collapse_edges(ITER), expansion(D+1)
+#
+# Cases: every cloud of testdata/homology/bench, plus relu_circle3000 (the
+# ReLU image of a noisy circle in R⁶⁴, 3000 points, made here by
+# `go run testdata/gen/relu_circle.go`), each for H≤1 and H≤2, at a
+# quarter and at a half of the cloud's diameter (each moved to the middle
+# of the widest gap between pairwise distances within 0.5 % of it, so
+# that no edge sits within rounding of the cut, float included) and at
+# the enclosing radius (each program's default threshold); then the
+# calibration cases of issue 3 (torus2000 at 1.0, 1.5, 3.0 and
+# sphere600 H≤2 at 1.0). Cases that take many minutes for some program
+# match HEAVY and run only when the CASE-REGEXP argument is given and
+# matches them.
+#
+# Rounds are interleaved (crease, ripser, gudhi-ec, crease, ...), RUNS of
+# them. Times are medians of whole-process runs (wall clock and user+sys
+# CPU: crease uses every core, the references one), memory the median
+# peak RSS, from /usr/bin/time -v. A program whose run exceeds TIMEOUT
+# seconds or MEM_GB of address space (ulimit -v) is reported as
+# "timeout"/"oom" and not run again for that case; so is one whose run
+# took longer than SLOW seconds (its single time is kept). The ratios
+# are crease's wall time and peak RSS over those of the best reference
+# that finished (fastest, least memory); "< r" when none finished and one
+# timed out. The last column compares each reference's barcode with
+# crease's as multisets per dimension, birth and death within a relative
+# tolerance (GUDHI: 1e-9 relative plus 1e-12 of the largest value;
+# Ripser, float arithmetic and six printed digits: 2e-5 plus 1e-6),
+# ignoring bars shorter than the tolerance (zero-length bars are dropped
+# by all programs, but at different precisions): "=" agree, else
+# the first difference. Only finished runs are compared: a stopped Ripser
+# run has printed only the bars of the columns it had reduced (in
+# decreasing order of birth), and the long bar of a circle can be the
+# one column that takes nearly all the time (TestReLUCircleBar in
+# homology/relu_circle_test.go). The rows are followed by the cases
+# where crease loses (a ratio above 1).
 #
 # Usage: bench/homology.sh [CASE-REGEXP]
-# Environment: RUNS (default 3), GUDHI_TIMEOUT (default 600),
-# GUDHI_MEM_GB (default 8), ITER (collapse_edges iterations, default 1),
-# SLOW (default 60: a program whose run took longer than SLOW seconds is
-# not run again for that case), MODES (default "rips ec": the GUDHI paths
-# to time; empty times crease alone), CREASE_FLAGS (extra flags for
-# crease barcode, e.g. --edge-collapse).
+# Environment: RUNS (default 3), TIMEOUT (default 600; GUDHI_TIMEOUT is
+# the old name), MEM_GB (default 8; GUDHI_MEM_GB), SLOW (default 60),
+# MODES (default: "ripser gudhi-ec", those that are installed; add "rips"
+# and "ec" for GUDHI's Python paths; empty times crease alone), RIPSER
+# (Ripser's binary), GUDHI_EC (1: build the driver, failing if the
+# headers are missing; 0: do not), ITER (collapse_edges iterations of
+# "ec", default 1), HEAVY (regexp of the cases skipped without an
+# argument), CREASE_FLAGS (extra flags for crease barcode, e.g.
+# --edge-collapse), CXX (default c++).
 set -euo pipefail
 cd "$(dirname "$0")/.."
 
 RUNS=${RUNS:-3}
-GUDHI_TIMEOUT=${GUDHI_TIMEOUT:-600}
-GUDHI_MEM_GB=${GUDHI_MEM_GB:-8}
-ITER=${ITER:-1}
+TIMEOUT=${TIMEOUT:-${GUDHI_TIMEOUT:-600}}
+MEM_GB=${MEM_GB:-${GUDHI_MEM_GB:-8}}
 SLOW=${SLOW:-60}
-MODES=${MODES-rips ec}
-RIPSER=${RIPSER:-}
-if [ -n "$RIPSER" ]; then
-	[ -x "$RIPSER" ] || { echo "RIPSER=$RIPSER is not an executable" >&2; exit 1; }
-	MODES="${MODES:+$MODES }ripser"
-fi
+ITER=${ITER:-1}
+CXX=${CXX:-c++}
 CREASE_FLAGS=${CREASE_FLAGS:-}
-FILTER=${1:-.}
+# Each of these took Ripser past 200 s (and GUDHI's edge collapse past
+# 8 GB) on 2 cores, RUNS=1 of this script, 2026-12-03; the other H2 cases
+# take at most a few minutes in all.
+HEAVY=${HEAVY:-'^(torus2000|relu_circle3000)/H2/(half|enclosing)$'}
+FILTER=${1:-}
 PY=/usr/bin/python3
 DATA=testdata/homology/bench
+GUDHI_HEADER=/usr/include/gudhi/Flag_complex_edge_collapser.h
 
 if [ ! -x /usr/bin/time ]; then
 	echo "== installing Debian's time (for /usr/bin/time -v)" >&2
@@ -68,19 +100,93 @@ if [ ! -x /usr/bin/time ]; then
 	apt-get update -q >&2
 	apt-get install -y -q time >&2
 fi
-"$PY" -c 'import gudhi, numpy' || { echo "need python3-gudhi and python3-numpy for $PY" >&2; exit 1; }
+"$PY" -c 'import numpy' || { echo "need python3-numpy for $PY" >&2; exit 1; }
 
 tmp=$(mktemp -d)
 trap 'rm -rf "$tmp"' EXIT
 CGO_ENABLED=0 go build -o "$tmp/crease" ./cmd/crease
 
+# Which references: MODES if set, else those installed; RIPSER=... and
+# GUDHI_EC=1 add theirs to any MODES.
+RIPSER_SET=${RIPSER:-}
+RIPSER=${RIPSER:-$(command -v ripser || true)}
+if [ -z "${MODES+set}" ]; then
+	MODES=""
+	if [ -n "$RIPSER" ]; then MODES="ripser"; fi
+	if [ "${GUDHI_EC:-}" != 0 ] && [ -f "$GUDHI_HEADER" ]; then MODES="${MODES:+$MODES }gudhi-ec"; fi
+fi
+if [ -n "$RIPSER_SET" ] && [[ " $MODES " != *" ripser "* ]]; then MODES="${MODES:+$MODES }ripser"; fi
+if [ "${GUDHI_EC:-}" = 1 ] && [[ " $MODES " != *" gudhi-ec "* ]]; then MODES="${MODES:+$MODES }gudhi-ec"; fi
+for mode in $MODES; do
+	case $mode in
+	ripser)
+		[ -n "$RIPSER" ] && [ -x "$RIPSER" ] || { echo "MODES has ripser but RIPSER='$RIPSER' is not an executable" >&2; exit 1; }
+		;;
+	gudhi-ec)
+		[ -f "$GUDHI_HEADER" ] || { echo "gudhi-ec needs $GUDHI_HEADER (apt-get install libgudhi-dev libboost-dev)" >&2; exit 1; }
+		echo "== building bench/gudhi_collapse.cpp into $tmp" >&2
+		"$CXX" -std=c++17 -O3 -DNDEBUG bench/gudhi_collapse.cpp -o "$tmp/gudhi_collapse"
+		;;
+	rips | ec)
+		"$PY" -c 'import gudhi' || { echo "MODES $mode needs python3-gudhi for $PY" >&2; exit 1; }
+		;;
+	*)
+		echo "unknown mode $mode (want ripser, gudhi-ec, rips or ec)" >&2
+		exit 1
+		;;
+	esac
+done
+
+# Python helpers (numpy; gudhi only for the rips and ec modes).
+cat >"$tmp/cloudinfo.py" <<'EOF'
+# argv: cloud.csv; prints "diameter enclosing quarter half": the largest
+# pairwise distance, the enclosing radius, and thresholds near a quarter
+# and a half of the diameter, each the middle of the widest gap between
+# consecutive pairwise distances within 0.5 % of the target.
+import sys
+import numpy as np
+
+x = np.loadtxt(sys.argv[1], delimiter=",", ndmin=2)
+n = len(x)
+sq = (x * x).sum(axis=1)
+far = np.zeros(n)
+diam = 0.0
+for s in range(0, n, 256):
+    d2 = sq[s:s + 256, None] + sq[None, :] - 2 * x[s:s + 256] @ x.T
+    d = np.sqrt(np.maximum(d2, 0))
+    far[s:s + 256] = d.max(axis=1)
+    diam = max(diam, float(d.max()))
+enc = float(far.min())
+
+
+def safe(target):
+    lo, hi = target * 0.995, target * 1.005
+    near = []
+    for s in range(0, n, 256):
+        d2 = sq[s:s + 256, None] + sq[None, :] - 2 * x[s:s + 256] @ x.T
+        i, j = np.nonzero((d2 > (lo * 0.99) ** 2) & (d2 < (hi * 1.01) ** 2))
+        i = i + s
+        keep = i < j
+        i, j = i[keep], j[keep]
+        # exact distances (differences, not the Gram trick) for the candidates
+        near.append(np.sqrt(((x[i] - x[j]) ** 2).sum(axis=1)))
+    d = np.sort(np.concatenate(near + [np.array([lo, hi])]))
+    d = d[(d >= lo) & (d <= hi)]
+    k = int(np.argmax(np.diff(d)))
+    return (d[k] + d[k + 1]) / 2
+
+
+print("%.17g %.17g %.9g %.9g" % (diam, enc, safe(diam / 4), safe(diam / 2)))
+EOF
+
 cat >"$tmp/gudhi_bars.py" <<'EOF'
-# argv: cloud.csv maxdim threshold(0 = enclosing radius) path(rips|ec) iterations out
+# argv: cloud.csv maxdim threshold(0 = enclosing radius) path(rips|ec) iterations
+# prints the barcode in the format of crease barcode
 import sys
 import numpy as np
 import gudhi
 
-path, maxdim, thr, mode, it, out = sys.argv[1], int(sys.argv[2]), float(sys.argv[3]), sys.argv[4], int(sys.argv[5]), sys.argv[6]
+path, maxdim, thr, mode, it = sys.argv[1], int(sys.argv[2]), float(sys.argv[3]), sys.argv[4], int(sys.argv[5])
 x = np.loadtxt(path, delimiter=",", ndmin=2)
 if thr <= 0:
     # enclosing radius, min over points of the max distance, in blocks
@@ -99,45 +205,134 @@ else:
     st.collapse_edges(nb_iterations=it)
     st.expansion(maxdim + 1)
 st.persistence(homology_coeff_field=2, min_persistence=0)
-counts = []
+out = ["dim\tlo\thi"]
 for d in range(maxdim + 1):
-    iv = st.persistence_intervals_in_dimension(d)
-    counts.append(str(int(sum(1 for b, e in iv if e - b > 1e-9))))
-with open(out, "w") as f:
-    f.write(" ".join(counts) + "\n")
+    for b, e in sorted(st.persistence_intervals_in_dimension(d).tolist()):
+        out.append("%d\t%.17g\t%s" % (d, b, "inf" if np.isinf(e) else "%.17g" % e))
+print("\n".join(out))
 EOF
 
-# cases: name file maxdim threshold (0 = enclosing radius)
-cases=(
-	"torus2000/thr1.0 torus2000.csv 1 1.0"
-	"torus2000/thr1.5 torus2000.csv 1 1.5"
-	"torus2000/thr3.0 torus2000.csv 1 3.0"
-	"torus2000/enclosing torus2000.csv 1 0"
-	"clusters1500_r16/enclosing clusters1500_r16.csv 1 0"
-	"digits1797/enclosing digits1797.csv 1 0"
-	"noisycircle1000/enclosing noisycircle1000.csv 1 0"
-	"sphere600/H2/thr1.0 sphere600.csv 2 1.0"
+cat >"$tmp/barcmp.py" <<'EOF'
+# argv: crease.tsv other.tsv maxdim rtol atol; prints "=" when the
+# barcodes agree as multisets per dimension, else the first difference.
+# Birth and death must agree within rtol relative plus atol times the
+# largest finite value of both barcodes (float rounding of the coordinates
+# is absolute, not relative to a short distance); infinite deaths must
+# both be infinite; bars shorter than that tolerance are ignored on both
+# sides.
+import bisect
+import math
+import sys
+
+def load(path, maxdim):
+    bars = [[] for _ in range(maxdim + 1)]
+    with open(path) as f:
+        for line in f:
+            p = line.split()
+            if len(p) != 3 or p[0] == "dim":
+                continue
+            d, b, e = int(p[0]), float(p[1]), float(p[2])
+            if d <= maxdim:
+                bars[d].append((b, e))
+    return bars
+
+want_path, got_path, maxdim = sys.argv[1], sys.argv[2], int(sys.argv[3])
+rtol, atol = float(sys.argv[4]), float(sys.argv[5])
+want, got = load(want_path, maxdim), load(got_path, maxdim)
+scale = max([abs(v) for bs in want + got for b in bs for v in b if not math.isinf(v)] + [0.0])
+eps = atol * scale
+
+def tol(a):
+    return rtol * abs(a) + eps
+
+def near(a, b):
+    if math.isinf(a) or math.isinf(b):
+        return a == b
+    return abs(a - b) <= tol(max(abs(a), abs(b)))
+
+for d in range(maxdim + 1):
+    w = sorted(x for x in want[d] if math.isinf(x[1]) or not near(x[0], x[1]))
+    g = sorted(x for x in got[d] if math.isinf(x[1]) or not near(x[0], x[1]))
+    if len(w) != len(g):
+        print("H%d: %d bars, crease %d" % (d, len(g), len(w)))
+        sys.exit()
+    births = [b for b, _ in g]
+    used = [False] * len(g)
+    for b, e in w:
+        k = bisect.bisect_left(births, b - tol(b))
+        while k < len(g) and births[k] <= b + tol(b):
+            if not used[k] and near(g[k][0], b) and near(g[k][1], e):
+                used[k] = True
+                break
+            k += 1
+        else:
+            print("H%d: no bar for crease's [%.6g, %.6g)" % (d, b, e))
+            sys.exit()
+print("=")
+EOF
+
+# Ripser's output as a crease barcode (6 significant digits).
+ripser_tsv() {
+	awk 'BEGIN {print "dim\tlo\thi"}
+		/persistence intervals in dim/ {d=$NF; sub(":","",d); next}
+		/^ \[/ {s=$0; gsub(/[\[\) ]/,"",s); split(s,p,","); print d "\t" p[1] "\t" (p[2]=="" ? "inf" : p[2])}' "$1"
+}
+
+# The clouds: the committed ones and the ReLU circle.
+go run testdata/gen/relu_circle.go -n 3000 >"$tmp/relu_circle3000.csv"
+clouds=()
+for f in "$DATA"/*.csv; do clouds+=("$(basename "$f" .csv)=$f"); done
+clouds+=("relu_circle3000=$tmp/relu_circle3000.csv")
+cloudpath() { local c; for c in "${clouds[@]}"; do if [ "${c%%=*}" = "$1" ]; then echo "${c#*=}"; fi; done; }
+
+# cases: name cloud maxdim threshold (0: the enclosing radius; quarter
+# and half: of the diameter, worked out when the case runs)
+cases=()
+for c in "${clouds[@]}"; do
+	for d in 1 2; do
+		for t in quarter half enclosing; do
+			thr=$t
+			if [ "$t" = enclosing ]; then thr=0; fi
+			cases+=("${c%%=*}/H$d/$t ${c%%=*} $d $thr")
+		done
+	done
+done
+cases+=(
+	"torus2000/H1/thr1.0 torus2000 1 1.0"
+	"torus2000/H1/thr1.5 torus2000 1 1.5"
+	"torus2000/H1/thr3.0 torus2000 1 3.0"
+	"sphere600/H2/thr1.0 sphere600 2 1.0"
 )
+
+# cloudinfo CLOUD: fills info[CLOUD] with "diameter enclosing quarter
+# half" (cloudinfo.py, once per cloud; call it outside $(...))
+declare -A info=()
+cloudinfo() {
+	if [ -z "${info[$1]:-}" ]; then info[$1]=$("$PY" "$tmp/cloudinfo.py" "$(cloudpath "$1")"); fi
+}
 
 # median of the numbers on stdin
 median() { sort -g | awk '{a[NR]=$1} END {if (NR==0) print "nan"; else if (NR%2) print a[(NR+1)/2]; else print (a[NR/2]+a[NR/2+1])/2}'; }
 
-# timed LABEL CMD...: runs CMD under /usr/bin/time -v, appends
-# "wall cpu rssMB status" to $tmp/LABEL.runs
+# timed LABEL OUT CMD...: runs CMD under /usr/bin/time -v, TIMEOUT and
+# MEM_GB, stdout to OUT; appends "wall cpu rssMB status" to $tmp/LABEL.runs
 timed() {
-	local label=$1
-	shift
-	local st=0
-	/usr/bin/time -v -o "$tmp/tv" "$@" >"$tmp/out" 2>"$tmp/err" || st=$?
+	local label=$1 out=$2
+	shift 2
+	local st=0 t0 t1
+	t0=$EPOCHREALTIME
+	/usr/bin/time -v -o "$tmp/tv" bash -c 'ulimit -v $(('"$MEM_GB"' * 1024 * 1024)); exec timeout -s KILL '"$TIMEOUT"' "$@"' _ "$@" >"$out" 2>"$tmp/err" || st=$?
+	t1=$EPOCHREALTIME
 	local wall cpu rss
-	wall=$(awk -F': ' '/Elapsed \(wall clock\)/ {n=split($2,p,":"); s=0; for(i=1;i<=n;i++) s=s*60+p[i]; print s}' "$tmp/tv")
+	# wall clock from bash (µs; /usr/bin/time rounds to 10 ms), CPU and RSS from time -v
+	wall=$(awk -v a="$t0" -v b="$t1" 'BEGIN {printf "%.4f", b - a}')
 	cpu=$(awk -F': ' '/User time/ {u=$2} /System time/ {s=$2} END {print u+s}' "$tmp/tv")
 	rss=$(awk -F': ' '/Maximum resident set size/ {printf "%.0f", $2/1024}' "$tmp/tv")
 	local status=ok
 	if [ $st -ne 0 ]; then
 		if [ $st -eq 124 ] || [ $st -eq 137 ] || grep -q "Command terminated by signal 9" "$tmp/tv"; then
 			status=timeout
-		elif grep -qi "memory\|bad_alloc" "$tmp/err"; then
+		elif grep -qi "memory\|bad_alloc\|cannot allocate" "$tmp/err"; then
 			status=oom
 		else
 			status=fail$st
@@ -147,83 +342,150 @@ timed() {
 	echo "$wall $cpu $rss $status" >>"$tmp/$label.runs"
 }
 
-# slow LABEL: true if the last run of LABEL took longer than SLOW seconds
-slow() { tail -1 "$tmp/$1.runs" | awk -v s="$SLOW" '{exit !($1 > s)}'; }
-
-# summary LABEL: "wall cpu rss status" medians (status of the last run)
+# summary LABEL: "wall cpu rss status", medians of the runs that finished
+# (the last run when none did), status of the last run
 summary() {
 	local f="$tmp/$1.runs"
-	printf '%s %s %s %s\n' "$(awk '{print $1}' "$f" | median)" "$(awk '{print $2}' "$f" | median)" \
-		"$(awk '{print $3}' "$f" | median)" "$(tail -1 "$f" | awk '{print $4}')"
+	if grep -q ' ok$' "$f"; then
+		printf '%s %s %s %s\n' "$(awk '$4=="ok" {print $1}' "$f" | median)" "$(awk '$4=="ok" {print $2}' "$f" | median)" \
+			"$(awk '$4=="ok" {print $3}' "$f" | median)" ok
+	else
+		tail -1 "$f"
+	fi
 }
 
 cell() { # wall cpu rss status -> printable cell
-	if [ "$4" = ok ]; then printf '%.2f s (cpu %.2f) %d MB' "$1" "$2" "$3"; else printf '%s (> %.0f s)' "$4" "$1"; fi
+	if [ "$4" != ok ]; then printf '%s (> %.0f s)' "$4" "$1"; return; fi
+	awk -v w="$1" -v c="$2" -v r="$3" 'BEGIN {f = (w < 1) ? "%.3f s (cpu %.2f) %d MB" : "%.2f s (cpu %.2f) %d MB"; printf f, w, c, r}'
 }
-ratio() { # crease-wall other-wall other-status
-	case $3 in
-	ok) awk -v a="$1" -v b="$2" 'BEGIN {printf "%.2f", a/b}' ;;
-	timeout) awk -v a="$1" -v b="$2" 'BEGIN {printf "< %.2f", a/b}' ;;
-	*) printf 'n/a (gudhi %s)' "$3" ;;
+
+# run LABEL MODE CLOUD MAXDIM THR OUT: one run of a program on a case
+run() {
+	local label=$1 mode=$2 file=$3 maxdim=$4 thr=$5 out=$6
+	local targ=()
+	case $mode in
+	crease)
+		if [ "$thr" != 0 ]; then targ=(--stop-at "$thr"); fi
+		# shellcheck disable=SC2086 # split the extra flags on purpose
+		timed "$label" "$out" "$tmp/crease" barcode "$file" --top-dim "$maxdim" "${targ[@]}" $CREASE_FLAGS
+		;;
+	ripser)
+		if [ "$thr" != 0 ]; then targ=(--threshold "$thr"); fi
+		timed "$label" "$out.raw" "$RIPSER" --format point-cloud --dim "$maxdim" "${targ[@]}" "$file"
+		ripser_tsv "$out.raw" >"$out"
+		;;
+	gudhi-ec)
+		timed "$label" "$out" "$tmp/gudhi_collapse" "$file" "$maxdim" "$thr"
+		;;
+	rips | ec)
+		timed "$label" "$out" "$PY" "$tmp/gudhi_bars.py" "$file" "$maxdim" "$thr" "$mode" "$ITER"
+		;;
 	esac
 }
 
+column() { case $1 in rips) echo py-rips ;; ec) echo py-ec ;; *) echo "$1" ;; esac; }
+
 echo "# bench/homology.sh $(date -u '+%Y-%m-%d %H:%M UTC'), $(nproc) cores, load average at start: $(cut -d' ' -f1-3 /proc/loadavg)"
-echo "# $(go version | cut -d' ' -f3), gudhi $("$PY" -c 'import gudhi; print(gudhi.__version__)'), RUNS=$RUNS, crease flags: ${CREASE_FLAGS:-none}, collapse_edges(nb_iterations=$ITER), GUDHI limits ${GUDHI_TIMEOUT} s / ${GUDHI_MEM_GB} GB"
-echo
-head="| case | crease"
-rule="|---|---"
+refs=""
 for mode in $MODES; do
-	if [ "$mode" = ripser ]; then head="$head | ripser"; else head="$head | gudhi-$mode"; fi
-	rule="$rule|---"
+	case $mode in
+	ripser) refs="$refs, ripser $RIPSER" ;;
+	gudhi-ec) refs="$refs, gudhi-ec $(dpkg-query -W -f='libgudhi-dev ${Version}' libgudhi-dev 2>/dev/null || echo 'GUDHI headers')" ;;
+	rips | ec) refs="$refs, $(column "$mode") gudhi $("$PY" -c 'import gudhi; print(gudhi.__version__)')" ;;
+	esac
 done
-for mode in $MODES; do head="$head | crease/$mode"; rule="$rule|---"; done
-echo "$head | bars (crease${MODES:+; ${MODES// /; }}) |"
-echo "$rule|---|"
+echo "# $(go version | cut -d' ' -f3)${refs:-, crease alone}; RUNS=$RUNS, crease flags: ${CREASE_FLAGS:-none}, limits ${TIMEOUT} s / ${MEM_GB} GB, SLOW=$SLOW"
+echo
+head="| case | threshold | crease"
+rule="|---|---|---"
+for mode in $MODES; do head="$head | $(column "$mode")"; rule="$rule|---"; done
+echo "$head | time ratio | RSS ratio | bars |"
+echo "$rule|---|---|---|"
+losses=()
 for c in "${cases[@]}"; do
-	read -r name file maxdim thr <<<"$c"
-	[[ $name =~ $FILTER ]] || continue
+	read -r name cloud maxdim thr <<<"$c"
+	if [ -n "$FILTER" ]; then
+		[[ $name =~ $FILTER ]] || continue
+	elif [[ $name =~ $HEAVY ]]; then
+		row="| $name | | not run (HEAVY; pass a CASE-REGEXP that matches it)"
+		for _ in $MODES; do row="$row | "; done
+		echo "$row | | | |"
+		continue
+	fi
+	case $thr in
+	quarter | half)
+		cloudinfo "$cloud"
+		read -r _ _ quarter half <<<"${info[$cloud]}"
+		if [ "$thr" = quarter ]; then thr=$quarter; else thr=$half; fi
+		;;
+	esac
+	file=$(cloudpath "$cloud")
 	key=${name//\//_}
-	args=(barcode "$DATA/$file" --top-dim "$maxdim")
-	if [ "$thr" != 0 ]; then args+=(--stop-at "$thr"); fi
-	# shellcheck disable=SC2206 # split the extra flags on purpose
-	args+=($CREASE_FLAGS)
+	progs="crease $MODES"
+	declare -A active=()
+	for p in $progs; do active[$p]=1; done
 	for _ in $(seq "$RUNS"); do
-		timed "$key.crease" "$tmp/crease" "${args[@]}"
-		if slow "$key.crease"; then break; fi
-	done
-	crease_counts=$(awk -v m="$maxdim" -F'\t' 'NR>1 && ($3=="inf" || $3-$2>1e-9) {n[$1]++} END {s=""; for(d=0;d<=m;d++) s=s (d?" ":"") (n[d]+0); print s}' "$tmp/out")
-	read -r cw cc cr cs <<<"$(summary "$key.crease")"
-	row="| $name | $(cell "$cw" "$cc" "$cr" "$cs")"
-	ratios=""
-	bars="$crease_counts"
-	for mode in $MODES; do
-		for _ in $(seq "$RUNS"); do
-			rm -f "$tmp/counts"
-			if [ "$mode" = ripser ]; then
-				targ=""
-				if [ "$thr" != 0 ]; then targ="--threshold $thr"; fi
-				timed "$key.$mode" bash -c "ulimit -v $((GUDHI_MEM_GB * 1024 * 1024)); exec timeout -s KILL $GUDHI_TIMEOUT $RIPSER --format point-cloud --dim $maxdim $targ $DATA/$file"
-				# bars longer than 1e-9 (or infinite) per dimension
-				awk -v m="$maxdim" '/persistence intervals in dim/ {d=$NF; sub(":","",d); next}
-					/^ \[/ {s=$0; gsub(/[\[\) ]/,"",s); split(s,p,","); if (p[2]=="" || p[2]-p[1]>1e-9) n[d]++}
-					END {s=""; for(k=0;k<=m;k++) s=s (k?" ":"") (n[k]+0); print s}' "$tmp/out" >"$tmp/counts"
-			else
-				timed "$key.$mode" bash -c "ulimit -v $((GUDHI_MEM_GB * 1024 * 1024)); exec timeout -s KILL $GUDHI_TIMEOUT $PY $tmp/gudhi_bars.py $DATA/$file $maxdim $thr $mode $ITER $tmp/counts"
+		for p in $progs; do
+			[ "${active[$p]}" = 1 ] || continue
+			run "$key.$p" "$p" "$file" "$maxdim" "$thr" "$tmp/$key.$p.try"
+			last=$(tail -1 "$tmp/$key.$p.runs")
+			if [ "$(echo "$last" | awk '{print $4}')" = ok ]; then mv "$tmp/$key.$p.try" "$tmp/$key.$p.out"; fi
+			if [ "$(echo "$last" | awk '{print $4}')" != ok ] || echo "$last" | awk -v s="$SLOW" '{exit !($1 > s)}'; then
+				active[$p]=0
 			fi
-			if [ "$(tail -1 "$tmp/$key.$mode.runs" | awk '{print $4}')" != ok ] || slow "$key.$mode"; then break; fi
 		done
+	done
+	read -r cw cc cr cs <<<"$(summary "$key.crease")"
+	thrcell=$thr
+	if [ "$thr" = 0 ]; then thrcell=enclosing; fi
+	row="| $name | $thrcell | $(cell "$cw" "$cc" "$cr" "$cs")"
+	bestw="" bestr="" timedout=""
+	bars=""
+	for mode in $MODES; do
 		read -r gw gc gr gs <<<"$(summary "$key.$mode")"
 		row="$row | $(cell "$gw" "$gc" "$gr" "$gs")"
-		ratios="$ratios | $(ratio "$cw" "$gw" "$gs")"
-		if [ -f "$tmp/counts" ]; then
-			g=$(cat "$tmp/counts")
-			if [ "$g" = "$crease_counts" ]; then bars="$bars; $g"; else bars="$bars; $g MISMATCH"; fi
+		if [ "$gs" = ok ]; then
+			bestw=$(awk -v a="$gw" -v b="$bestw" 'BEGIN {print (b=="" || a<b) ? a : b}')
+			bestr=$(awk -v a="$gr" -v b="$bestr" 'BEGIN {print (b=="" || a<b) ? a : b}')
+		elif [ "$gs" = timeout ]; then
+			timedout=$(awk -v a="$gw" -v b="$timedout" 'BEGIN {print (b=="" || a<b) ? a : b}')
+		fi
+		tol="1e-9 1e-12"
+		if [ "$mode" = ripser ]; then tol="2e-5 1e-6"; fi
+		if [ "$cs" = ok ] && [ "$gs" = ok ]; then
+			# shellcheck disable=SC2086 # two numbers
+			bars="$bars${bars:+; }$(column "$mode") $("$PY" "$tmp/barcmp.py" "$tmp/$key.crease.out" "$tmp/$key.$mode.out" "$maxdim" $tol)"
 		else
-			bars="$bars; -"
+			bars="$bars${bars:+; }$(column "$mode") -"
 		fi
 	done
-	echo "$row$ratios | $bars |"
+	tr="-" rr="-"
+	if [ "$cs" = ok ] && [ -n "$bestw" ]; then
+		tr=$(awk -v a="$cw" -v b="$bestw" 'BEGIN {printf "%.2f", a/b}')
+		rr=$(awk -v a="$cr" -v b="$bestr" 'BEGIN {printf "%.2f", a/b}')
+		if awk -v t="$tr" -v r="$rr" 'BEGIN {exit !(t > 1 || r > 1)}'; then losses+=("$name: time ×$tr, RSS ×$rr"); fi
+	elif [ "$cs" = ok ] && [ -n "$timedout" ]; then
+		tr=$(awk -v a="$cw" -v b="$timedout" 'BEGIN {printf "< %.2f", a/b}')
+	elif [ "$cs" != ok ] && [ -n "$bestw" ]; then
+		losses+=("$name: crease $cs")
+	fi
+	echo "$row | $tr | $rr | ${bars:--} |"
+	unset active
 done
 echo
+for c in "${clouds[@]}"; do
+	name=${c%%=*}
+	if [ -n "${info[$name]:-}" ]; then
+		read -r diam enc _ _ <<<"${info[$name]}"
+		printf '# %s: diameter %.6g, enclosing radius %.6g\n' "$name" "$diam" "$enc"
+	fi
+done
+if [ -n "$MODES" ]; then
+	if [ ${#losses[@]} -eq 0 ]; then
+		echo "# crease loses nowhere (no ratio above 1)"
+	else
+		echo "# crease loses (ratio above 1 against the best reference that finished):"
+		for l in "${losses[@]}"; do echo "#   $l"; done
+	fi
+fi
 echo "# load average at end: $(cut -d' ' -f1-3 /proc/loadavg)"
