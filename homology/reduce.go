@@ -11,6 +11,8 @@ import (
 	"math/bits"
 	"slices"
 	"sync"
+	"sync/atomic"
+	"unsafe"
 
 	"crease.dev/crease/internal/budget"
 )
@@ -398,42 +400,118 @@ func (e *engine) reduce(columns []simplex, d int, pm *pivotMap) ([]Bar, error) {
 // in prev, and returns those that must be reduced (not cleared by pm and
 // not in a zero-persistence apparent pair) in reduction order. With
 // keep, it also returns all d-simplices.
+//
+// The checks are made as each coface is listed, so that only the
+// simplices to be reduced are held (most of a dense cloud's triangles
+// are in apparent pairs: the digits at the enclosing radius have some
+// 10⁹, which listed first would need 16 GB), on all cores over chunks
+// of prev whose outputs are joined in order, so the result is that of a
+// single pass.
 func (e *engine) assemble(prev []simplex, pm *pivotMap, d int, keep bool) (cols, all []simplex, err error) {
 	k := d + 1
-	it := &cofaces{e: e}
 	e.startPhase("assemble", d, int64(len(prev)))
-	for pi, s := range prev {
-		if e.work >= e.nextTick || pi&0xfff == 0 {
-			e.phase.Done = int64(pi)
-			if err := e.tick(); err != nil {
-				return nil, nil, err
+	const chunk = 512
+	chunks := (len(prev) + chunk - 1) / chunk
+	workers := min(budget.Workers(e.ctx), max(1, chunks))
+	type part struct{ cols, all []simplex }
+	parts := make([]part, chunks)
+	errs := make([]error, workers)
+	var next, held, cleared, apparent atomic.Int64
+	var failed atomic.Bool
+	base := *e // read-only tables; each worker counts its own work
+	var wg sync.WaitGroup
+	for g := range workers {
+		wg.Add(1)
+		go func(g int) {
+			defer wg.Done()
+			ec := base
+			it, chk := &cofaces{e: &ec}, &cofaces{e: &ec}
+			var w [maxVerts]int32
+			var nCleared, nApparent int64
+			defer func() { cleared.Add(nCleared); apparent.Add(nApparent) }()
+			for !failed.Load() {
+				ci := int(next.Add(1) - 1)
+				if ci >= chunks {
+					return
+				}
+				if err := e.ctx.Err(); err != nil {
+					errs[g] = err
+					failed.Store(true)
+					return
+				}
+				if g == 0 {
+					// Only this worker touches e's progress fields.
+					e.phase.Done = int64(min(ci*chunk, len(prev)))
+					e.work = ec.work
+					if err := e.tick(); err != nil {
+						errs[g] = err
+						failed.Store(true)
+						return
+					}
+				}
+				var pt part
+				for _, s := range prev[ci*chunk : min((ci+1)*chunk, len(prev))] {
+					it.set(s, k-1, true)
+					for {
+						c, _, ok := it.next()
+						if !ok {
+							break
+						}
+						if keep {
+							pt.all = append(pt.all, c)
+						}
+						if pm.has(c.i) {
+							nCleared++
+							continue
+						}
+						ec.vertices(c.i, k, w[:k])
+						if k > 2 {
+							if _, ap := ec.apparentFacetW(chk, c, w[:k]); ap {
+								nApparent++
+								continue
+							}
+						}
+						if ec.apparentAsFacet(chk, c, w[:k]) {
+							nApparent++
+							continue
+						}
+						pt.cols = append(pt.cols, c)
+					}
+				}
+				parts[ci] = pt
+				// What is held, and its copy into one list at the end.
+				h := held.Add(int64(cap(pt.cols) + cap(pt.all)))
+				if est := 2 * h * int64(unsafe.Sizeof(simplex{})); est > e.budget {
+					errs[g] = &MemoryError{Estimate: est, Budget: e.budget, Points: e.n,
+						What: fmt.Sprintf("listing the %d-simplices", d)}
+					failed.Store(true)
+					return
+				}
 			}
-			if est := int64(cap(cols)+cap(all)) * 16; est > e.budget {
-				return nil, nil, &MemoryError{Estimate: est, Budget: e.budget, Points: e.n,
-					What: fmt.Sprintf("listing the %d-simplices", d)}
-			}
-		}
-		it.set(s, k-1, true)
-		for {
-			c, _, ok := it.next()
-			if !ok {
-				break
-			}
-			if keep {
-				all = append(all, c)
-			}
-			if pm.has(c.i) {
-				e.stats.Cleared[d]++
-				continue
-			}
-			cols = append(cols, c)
+		}(g)
+	}
+	wg.Wait()
+	for _, err := range errs {
+		if err != nil {
+			return nil, nil, err
 		}
 	}
-	n0 := len(cols)
-	if cols, err = e.dropApparent(cols, k); err != nil {
-		return nil, nil, err
+	e.stats.Cleared[d] += cleared.Load()
+	e.stats.Apparent[d] += apparent.Load()
+	nc, na := 0, 0
+	for _, pt := range parts {
+		nc += len(pt.cols)
+		na += len(pt.all)
 	}
-	e.stats.Apparent[d] += int64(n0 - len(cols))
+	cols = make([]simplex, 0, nc)
+	if keep {
+		all = make([]simplex, 0, na)
+	}
+	for i, pt := range parts {
+		cols = append(cols, pt.cols...)
+		all = append(all, pt.all...)
+		parts[i] = part{}
+	}
 	if err := sortFiltration(e.ctx, cols, true); err != nil {
 		return nil, nil, err
 	}
