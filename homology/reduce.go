@@ -9,6 +9,7 @@ import (
 	"fmt"
 	"math"
 	"math/bits"
+	"runtime"
 	"slices"
 	"sync"
 	"sync/atomic"
@@ -47,6 +48,12 @@ func (e *engine) run() ([][]Bar, error) {
 		return nil, err
 	}
 	e.makeRanks()
+	// The sort's buffer and makeRanks' table of all pairs are garbage
+	// now; collecting it here, rather than when the heap has doubled,
+	// lets the reduction reuse their pages (the tables are free of
+	// pointers, so the collection marks almost nothing): the digits at
+	// the enclosing radius peaked at 129 MB without it.
+	runtime.GC()
 	var columns []simplex
 	var err error
 	bars[0], columns, err = e.dim0()
@@ -91,6 +98,12 @@ func (e *engine) dim0() ([]Bar, []simplex, error) {
 	}
 	var bars []Bar
 	var columns []simplex
+	if e.maxDim == 1 {
+		// The edges are not listed again (assemble), so the columns,
+		// a subsequence of them, are written over them: the k-th edge
+		// is read before anything is written at k or beyond.
+		columns = e.edges[:0]
+	}
 	var w [2]int32
 	var ends [][2]int32 // scratch: the ends of a group of equal lengths
 	wantCols := e.maxDim >= 1
@@ -167,6 +180,9 @@ func (e *engine) dim0() ([]Bar, []simplex, error) {
 		}
 	}
 	slices.Reverse(columns)
+	if e.maxDim == 1 {
+		e.edges = nil
+	}
 	return bars, columns, nil
 }
 
