@@ -44,8 +44,10 @@ func (e *engine) run() ([][]Bar, error) {
 	e.stats.Edges = int64(len(e.edges))
 
 	e.startPhase("edges", 0, int64(len(e.edges)))
-	if err := sortFiltration(e.ctx, e.edges, false); err != nil {
-		return nil, err
+	if !e.sorted {
+		if err := sortFiltration(e.ctx, e.edges, false); err != nil {
+			return nil, err
+		}
 	}
 	e.makeRanks()
 	// The sort's buffer and makeRanks' table of all pairs are garbage

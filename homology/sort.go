@@ -167,18 +167,28 @@ func sortFiltration(ctx context.Context, s []simplex, reverse bool) error {
 		buf[fill[b]] = x
 		fill[b]++
 	}
-	err := sortBuckets(ctx, start, func(i, j int) {
-		if a := buf[i:j]; len(a) <= 48 {
+	if err := sortEachBucket(ctx, buf, start, reverse); err != nil {
+		return err
+	}
+	copy(s, buf)
+	return nil
+}
+
+// sortEachBucket sorts each bucket s[start[b]:start[b+1]] in filtration
+// order or, with reverse, the opposite, short ones by insertion, the
+// buckets shared among all cores (sortBuckets).
+func sortEachBucket(ctx context.Context, s []simplex, start []int, reverse bool) error {
+	order := filtrationOrder
+	if reverse {
+		order = reverseOrder
+	}
+	return sortBuckets(ctx, start, func(i, j int) {
+		if a := s[i:j]; len(a) <= 48 {
 			insertionSort(a, reverse)
 		} else {
 			slices.SortFunc(a, order)
 		}
 	})
-	if err != nil {
-		return err
-	}
-	copy(s, buf)
-	return nil
 }
 
 // lengthBuckets maps lengths to buckets in order: interpolating a
