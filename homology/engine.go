@@ -249,10 +249,35 @@ func (e *engine) buildFromSparse(s *Sparse) error {
 			m++
 		}
 	}
-	if err := e.checkEdgeBudget(m, 0); err != nil {
+	// Where at least a quarter of the pairs are edges (a collapse near
+	// the enclosing radius keeps most of them: S² at 600 points, 177 071
+	// of 179 700), a table of all pairs, +Inf for those that are not
+	// edges, costs at most half the lists (8 bytes a pair against 32 an
+	// edge) and turns every length lookup from a search of a neighbour
+	// list into one read; the apparent-pair tests are those of the dense
+	// path. With it, makeRanks also holds 4 bytes a pair for a moment.
+	pairs := int64(n) * int64(n-1) / 2
+	dense := 4*m >= pairs
+	already := int64(0)
+	if dense {
+		already = pairs * 12
+	}
+	if err := e.checkEdgeBudget(m, already); err != nil {
 		return err
 	}
 	e.allocLists(deg, m)
+	if dense {
+		e.tri = make([]float64, pairs)
+		for i := range e.tri {
+			e.tri[i] = math.Inf(1)
+		}
+		for _, ed := range s.Edges {
+			if ed.D <= e.thr && !isInf(ed.D) {
+				i, j := max(ed.I, ed.J), min(ed.I, ed.J)
+				e.tri[i*(i-1)/2+j] = ed.D
+			}
+		}
+	}
 	fill := make([]int, n)
 	copy(fill, e.nbStart[:n])
 	e.edges = make([]simplex, 0, m)
