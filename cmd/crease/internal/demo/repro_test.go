@@ -59,7 +59,7 @@ func settledFrom(v []int, target int) int {
 // The data is a chain of three solid rings in R³ (class "ends": the two
 // outer rings, β = (2, 2); class "link": the middle ring, β = (1, 1), by
 // construction); both networks are 3→10×6→2 trained with PyTorch 1.13
-// (records in testdata/repro/*.onnx.json). See /work/notes/repro.md.
+// (records in testdata/repro/*.onnx.json).
 func TestReproduction(t *testing.T) {
 	f, err := os.Open(filepath.Join(reproDir, "chain.csv"))
 	if err != nil {
