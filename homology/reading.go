@@ -25,10 +25,9 @@ const (
 	// Bonferroni correction over the bars of that dimension, and when it
 	// dies at least 1.75 times its component's resolution (the 90th
 	// percentile of the k-th neighbour distances), past the sample's own
-	// spacing. Bars that
-	// the Benjamini–Hochberg procedure selects at a false discovery rate
-	// of 50 % count too, as a best guess that leaves the dimension
-	// undetermined. Components (H0) count when two groups of points,
+	// spacing. Bars that the Benjamini–Hochberg procedure selects at a
+	// false discovery rate of 50 % count too, as a best guess that
+	// leaves the dimension undetermined. Components (H0) count when two groups of points,
 	// each connected at its own scale, join only at a multiple RatioH0
 	// of that scale. When the cloud reads some class above H0 and is not
 	// close to isotropic, dimensions d ≥ 1 are counted again on each
@@ -142,8 +141,8 @@ const (
 	// counts the bars that the Benjamini–Hochberg procedure selects at
 	// this rate, marking the dimension undetermined where one of them is
 	// above the Bonferroni bound. A lone bar then counts below
-	// ratioBest / N, as significant as one that one noise bar in two
-	// would beat, so more likely signal than noise.
+	// ratioBest / N, a p-value that a diagram of N noise bars is
+	// expected to hold half a bar below: more likely signal than noise.
 	ratioBest = 0.5
 	// ratioOutlive and ratioResQuantile: a bar counts only if it dies
 	// at least ratioOutlive times the resolution of its component, the
@@ -470,16 +469,18 @@ func readScale(ctx context.Context, c *cloud, r readResolved) (*Reading, error) 
 // the sample comes from; whitening undoes a stretch, so the count does
 // not depend on one. A dimension is confident only when both readings
 // are and agree: a count that a linear change of coordinates overturns
-// is not one the sample decides. A cloud that reads no class above H0
-// in its own coordinates, and has no significant loop that the
-// resolution (ratioOutlive) left out, keeps its reading of H1:
-// a stretch raises the resolution, but whitening also
-// stretches the thin directions of arcs and blobs, and on the textbook
-// suite it found loops there that are not there. Its voids are read
-// again all the same: a stretch flattens a sphere into an ellipsoid
-// whose void fills at the scale of its shortest axis, before the loops
-// of the sample's noise have died, so that the cloud's own coordinates
-// see no class at all.
+// is not one the sample decides. Where the whitening needs more than
+// its largest gain (whitenMaxGain), the cloud is thin in its own right
+// and keeps its own count, undetermined where the two differ. A cloud
+// that reads no class above H0 in its own coordinates, and has no
+// significant loop that the resolution (ratioOutlive) left out, keeps
+// its reading of H1: a stretch raises the resolution, but whitening
+// also stretches the thin directions of arcs and blobs, and on the
+// textbook suite it found loops there that are not there. Its voids are
+// read again all the same: a stretch flattens a sphere into an
+// ellipsoid whose void fills at the scale of its shortest axis, before
+// the loops of the sample's noise have died, so that the cloud's own
+// coordinates see no class at all.
 func readRatio(ctx context.Context, c *cloud, r readResolved) (*Reading, error) {
 	rd, groups, err := ratioCore(ctx, c, r)
 	if err != nil || r.MaxDim < 1 || groups == nil {
@@ -697,8 +698,8 @@ func readCycles(bars []Bar, thr float64, truncated bool, alpha float64, res []fl
 		ps[i] = math.Exp(-math.Exp(ll[i] - mean - eulerGamma))
 		short[i] = min(b.Death, thr) < ratioOutlive*resolution(res, b.Birth)
 	}
-	// The best reading counts the bars that outlive ratioOutlive × scale
-	// and that the step-up procedure of Benjamini and Hochberg (J. R.
+	// The best reading counts the bars that outlive ratioOutlive × their
+	// resolution and that the step-up procedure of Benjamini and Hochberg (J. R.
 	// Stat. Soc. B 57, 1995) selects at false discovery rate
 	// q = max(α, ratioBest) among all N bars: the k smallest p-values,
 	// k the largest with p₍ₖ₎ < k q / N, the short bars taking p = 1.
