@@ -138,6 +138,10 @@ func (s *Stage) Apply(dst *mat.Dense, x mat.Matrix) {
 		panic(mat.ErrShape)
 	}
 	if s.Kind == Affine {
+		if xd, ok := x.(*mat.Dense); ok && useTile && dst != xd {
+			affineInto(dst, xd, s.W, affinePanels(s.W), s.B)
+			return
+		}
 		dst.Mul(x, s.W.T())
 		for i := 0; i < n; i++ {
 			row := dst.RawRowView(i)
