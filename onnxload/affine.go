@@ -11,7 +11,7 @@ import (
 )
 
 // affinePanels packs the transpose of an Out×In weight matrix w into
-// panels of 8 output columns for affineTile: panel q holds w[8q+j][t]
+// panels of 8 output columns for affineTileBias: panel q holds w[8q+j][t]
 // at q·8·In + 8t + j, zero past Out.
 func affinePanels(w *mat.Dense) []float64 {
 	out, in := w.Dims()
