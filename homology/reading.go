@@ -17,26 +17,26 @@ import (
 type Rule int
 
 const (
-	// RuleRatio is the default. It counts a bar of dimension d ≥ 1
-	// when its death/birth ratio (which no rescaling changes) is
-	// significant against the universal null distribution of O.
-	// Bobrowski and P. Skraba, "A universal null-distribution for
-	// topological data analysis", Scientific Reports 13 (2023), with a
-	// Bonferroni correction over the bars of that dimension, and when it
-	// dies at least 1.75 times its component's resolution (the 90th
-	// percentile of the k-th neighbour distances), past the sample's own
-	// spacing. Bars that the Benjamini–Hochberg procedure selects at a
-	// false discovery rate of 50 % count too, as a best guess that
-	// leaves the dimension undetermined. Components (H0) count when two groups of points,
-	// each connected at its own scale, join only at a multiple RatioH0
-	// of that scale. When the cloud reads some class above H0 and is not
-	// close to isotropic, dimensions d ≥ 1 are counted again on each
-	// component whitened along its principal axes (a linear change of
-	// coordinates, which changes the Rips filtration but not the
-	// topology), and that count is given. A dimension is undetermined
-	// when a bar lies close to the significance bound, when the sample
-	// gives no room for a cycle of that dimension to show, or when the
-	// whitened count differs from the count in the cloud's own
+	// RuleRatio is the default. It counts a bar of dimension d ≥ 1 when
+	// its death/birth ratio (which no rescaling changes) is significant
+	// against the universal null distribution of O. Bobrowski and P.
+	// Skraba, "A universal null-distribution for topological data
+	// analysis", Scientific Reports 13 (2023), with a Bonferroni
+	// correction over the bars of that dimension, and when it dies at
+	// least 1.75 times its component's resolution (the 90th percentile
+	// of the k-th neighbour distances), past the sample's own spacing.
+	// Bars that the Benjamini–Hochberg procedure selects at a false
+	// discovery rate of 50 % count too, as a best guess that leaves the
+	// dimension undetermined. Components (H0) count when two groups of
+	// points, each connected at its own scale, join only at a multiple
+	// RatioH0 of that scale. When the cloud reads some class above H0
+	// and is not close to isotropic, dimensions d ≥ 1 are counted again
+	// on each component whitened along its principal axes (a linear
+	// change of coordinates, which changes the Rips filtration but not
+	// the topology), and that count is given. A dimension is
+	// undetermined when a bar lies close to the significance bound, when
+	// the sample gives no room for a cycle of that dimension to show, or
+	// when the whitened count differs from the count in the cloud's own
 	// coordinates. It is the zero value.
 	RuleRatio Rule = iota
 	// RuleRelative reads Betti numbers at ε = Scale × diameter.
@@ -573,7 +573,10 @@ func ratioCore(ctx context.Context, c *cloud, r readResolved) (*Reading, [][]int
 	}
 	n := c.n
 	k := min(r.K, n-1)
-	s := samplingScale(t, k)
+	// s, the sampling scale, is the largest distance from a point to its
+	// k-th nearest neighbour.
+	kth := kthDistances(t, nil, k)
+	s := slices.Max(kth)
 	enc, _ := enclosingRadius(t)
 	thr := min(enc, ratioTau*s)
 	if !(thr > 0) {
@@ -591,7 +594,7 @@ func ratioCore(ctx context.Context, c *cloud, r readResolved) (*Reading, [][]int
 	// (groupScale): the scale against which a bar is judged.
 	var res []float64
 	for _, g := range groups {
-		res = append(res, groupScale(t, g, k))
+		res = append(res, groupScale(t, g, k, kth))
 	}
 	if len(res) == 0 {
 		res = append(res, s)
@@ -699,26 +702,9 @@ func readCycles(bars []Bar, thr float64, truncated bool, alpha float64, res []fl
 		short[i] = min(b.Death, thr) < ratioOutlive*resolution(res, b.Birth)
 	}
 	// The best reading counts the bars that outlive ratioOutlive × their
-	// resolution and that the step-up procedure of Benjamini and Hochberg (J. R.
-	// Stat. Soc. B 57, 1995) selects at false discovery rate
-	// q = max(α, ratioBest) among all N bars: the k smallest p-values,
-	// k the largest with p₍ₖ₎ < k q / N, the short bars taking p = 1.
-	cut := math.Inf(-1)
-	{
-		q := max(alpha, ratioBest)
-		sorted := make([]float64, 0, n)
-		for i, p := range ps {
-			if !short[i] {
-				sorted = append(sorted, p)
-			}
-		}
-		slices.Sort(sorted)
-		for k, p := range sorted {
-			if p < float64(k+1)*q/float64(n) {
-				cut = p
-			}
-		}
-	}
+	// resolution and that the Benjamini–Hochberg procedure selects at
+	// false discovery rate max(α, ratioBest) among all N bars.
+	cut := stepUpCut(ps, short, max(alpha, ratioBest))
 	count, gray := 0, ""
 	var fill float64
 	ev.Lo, ev.Hi = 0, math.Inf(1)
@@ -757,6 +743,27 @@ func readCycles(bars []Bar, thr float64, truncated bool, alpha float64, res []fl
 	ev.Why = gray
 	mean := (sum + ratioPrior*ratioPriorWeight) / float64(n+ratioPriorWeight)
 	return count, ev, fill, ratioNeed(mean, alpha/float64(n+1))
+}
+
+// stepUpCut returns the largest p-value that the step-up procedure of
+// Benjamini and Hochberg (J. R. Stat. Soc. B 57, 1995) selects at false
+// discovery rate q among the N = len(ps) p-values, those marked skip
+// taking p = 1: p₍ₖ₎ for the largest k with p₍ₖ₎ < k q / N, or −Inf.
+func stepUpCut(ps []float64, skip []bool, q float64) float64 {
+	sorted := make([]float64, 0, len(ps))
+	for i, p := range ps {
+		if !skip[i] {
+			sorted = append(sorted, p)
+		}
+	}
+	slices.Sort(sorted)
+	cut := math.Inf(-1)
+	for k, p := range sorted {
+		if p < float64(k+1)*q/float64(len(ps)) {
+			cut = p
+		}
+	}
+	return cut
 }
 
 // ratioNeed returns the least death/birth ratio π at which a bar passes
@@ -906,24 +913,33 @@ func mst(t *LowerTriangular) []mstEdge {
 	return edges
 }
 
-// samplingScale returns the largest distance from a point to its k-th
-// nearest neighbour.
-func samplingScale(t *LowerTriangular, k int) float64 {
-	n := t.N
-	row := make([]float64, 0, n)
-	var s float64
-	for i := range n {
+// kthDistances returns, for each point idx[i] of t (every point when
+// idx is nil), the distance to its k-th nearest neighbour among the
+// points idx; k < the number of points.
+func kthDistances(t *LowerTriangular, idx []int, k int) []float64 {
+	m := t.N
+	if idx != nil {
+		m = len(idx)
+	}
+	at := func(i int) int {
+		if idx == nil {
+			return i
+		}
+		return idx[i]
+	}
+	row := make([]float64, 0, m)
+	kth := make([]float64, m)
+	for i := range m {
 		row = row[:0]
-		for j := range n {
+		a := at(i)
+		for j := range m {
 			if j != i {
-				row = append(row, t.Dist(i, j))
+				row = append(row, t.Dist(a, at(j)))
 			}
 		}
-		// The k-th smallest.
-		kth := quickselect(row, k-1)
-		s = max(s, kth)
+		kth[i] = quickselect(row, k-1)
 	}
-	return s
+	return kth
 }
 
 // groupScale returns the resolution of the points g of t: the
@@ -932,22 +948,19 @@ func samplingScale(t *LowerTriangular, k int) float64 {
 // a few outlying points do not move it. k is reduced to √len(g) (the
 // usual bound of k-nearest-neighbour density estimates, k ≪ n; common
 // practice): the 8th neighbours of a 24-point circle are a third of the
-// way round, past the scale at which its loop fills.
-func groupScale(t *LowerTriangular, g []int, k int) float64 {
-	k = min(k, int(math.Sqrt(float64(len(g)))), len(g)-1)
-	if k < 1 {
+// way round, past the scale at which its loop fills. all, if not nil,
+// holds kthDistances(t, nil, k), reused when g is every point and k is
+// not reduced.
+func groupScale(t *LowerTriangular, g []int, k int, all []float64) float64 {
+	kg := min(k, int(math.Sqrt(float64(len(g)))), len(g)-1)
+	if kg < 1 {
 		return 0
 	}
-	row := make([]float64, 0, len(g))
-	kth := make([]float64, 0, len(g))
-	for _, i := range g {
-		row = row[:0]
-		for _, j := range g {
-			if j != i {
-				row = append(row, t.Dist(i, j))
-			}
-		}
-		kth = append(kth, quickselect(row, k-1))
+	var kth []float64
+	if all != nil && kg == k && len(g) == t.N {
+		kth = slices.Clone(all)
+	} else {
+		kth = kthDistances(t, g, kg)
 	}
 	return quickselect(kth, int(ratioResQuantile*float64(len(kth)-1)+0.5))
 }

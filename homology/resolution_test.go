@@ -43,8 +43,12 @@ func TestGroupScale(t *testing.T) {
 			all[i] = i
 		}
 		want := 2 * test.r * math.Sin(float64(test.steps)*math.Pi/float64(test.m))
-		if got := groupScale(tri, all, test.k); math.Abs(got-want) > 1e-12*test.r {
+		if got := groupScale(tri, all, test.k, nil); math.Abs(got-want) > 1e-12*test.r {
 			t.Errorf("%d-gon of radius %g, k = %d: resolution %v, want %v", test.m, test.r, test.k, got, want)
+		}
+		// The same with the distances of every point given.
+		if got := groupScale(tri, all, test.k, kthDistances(tri, nil, test.k)); math.Abs(got-want) > 1e-12*test.r {
+			t.Errorf("%d-gon of radius %g, k = %d, distances given: resolution %v, want %v", test.m, test.r, test.k, got, want)
 		}
 	}
 }

@@ -93,12 +93,7 @@ func Forward(ctx context.Context, stages []Stage, x mat.Matrix, set *ForwardSett
 				}
 				r0, r1 := b*forwardBlock, min((b+1)*forwardBlock, n)
 				dst := out.Slice(r0, r1, 0, s.Out).(*mat.Dense)
-				src := cur.Slice(r0, r1, 0, s.In).(*mat.Dense)
-				if panels != nil {
-					affineInto(dst, src, s.W, panels, s.B)
-				} else {
-					s.Apply(dst, src)
-				}
+				s.apply(dst, cur.Slice(r0, r1, 0, s.In), panels)
 			}
 		}
 		if workers == 1 || n*s.In*max(s.Out, 1) < forwardSerial {

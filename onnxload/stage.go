@@ -137,9 +137,20 @@ func (s *Stage) Apply(dst *mat.Dense, x mat.Matrix) {
 	} else if r, cc := dst.Dims(); r != n || cc != s.Out {
 		panic(mat.ErrShape)
 	}
+	s.apply(dst, x, nil)
+}
+
+// apply is Apply without the size checks. panels, if not nil, holds
+// affinePanels(s.W) for an affine stage (Forward packs them once for
+// all its row blocks); nil packs them here when the tile kernel runs.
+func (s *Stage) apply(dst *mat.Dense, x mat.Matrix, panels []float64) {
+	n, _ := x.Dims()
 	if s.Kind == Affine {
 		if xd, ok := x.(*mat.Dense); ok && useTile && dst != xd {
-			affineInto(dst, xd, s.W, affinePanels(s.W), s.B)
+			if panels == nil {
+				panels = affinePanels(s.W)
+			}
+			affineInto(dst, xd, s.W, panels, s.B)
 			return
 		}
 		dst.Mul(x, s.W.T())
